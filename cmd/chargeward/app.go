@@ -1,0 +1,133 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"strings"
+)
+
+// Exit codes shared by every command.
+const (
+	exitOK       = 0 // success; for check and verify: nothing reached the threshold / the review matches
+	exitFindings = 1 // check: a finding at or above --fail-on; verify: the review does not match
+	exitBadInput = 2 // bad input, bad flags, or a state the models cannot handle; nothing written
+)
+
+// command is one subcommand. Each lives in its own file (cmd_NAME.go) with its own flag set and usage.
+type command struct {
+	name    string
+	summary string
+	run     func(args []string, env *env) error
+}
+
+// env carries the standard streams to a command.
+type env struct {
+	stdin          io.Reader
+	stdout, stderr io.Writer
+}
+
+// exitError carries an exit code out of a command; its message (if any) has already been printed.
+type exitError struct{ code int }
+
+func (e exitError) Error() string { return fmt.Sprintf("exit %d", e.code) }
+
+// commands is the command table; each entry's file owns its flags and usage text.
+var commands = []command{
+	checkCommand,
+	reviewCommand,
+	bleederCommand,
+	schemaCommand,
+	exampleCommand,
+	rulesCommand,
+	verifyCommand,
+}
+
+// run dispatches to a command and maps its error to an exit code. It never panics on input.
+func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+	e := &env{stdin: stdin, stdout: stdout, stderr: stderr}
+	if len(args) == 0 || args[0] == "-h" || args[0] == "--help" || args[0] == "help" {
+		if len(args) > 1 {
+			for _, c := range commands {
+				if c.name == args[1] {
+					return code(c.run([]string{"--help"}, e), stderr)
+				}
+			}
+		}
+		usage(stdout)
+		if len(args) == 0 {
+			return exitBadInput
+		}
+		return exitOK
+	}
+	if args[0] == "version" || args[0] == "--version" {
+		fmt.Fprintln(stdout, "chargeward", Version)
+		return exitOK
+	}
+	for _, c := range commands {
+		if c.name == args[0] {
+			return code(c.run(args[1:], e), stderr)
+		}
+	}
+	fmt.Fprintf(stderr, "chargeward: unknown command %q%s\nRun 'chargeward --help' for the list of commands.\n", args[0], suggestCommand(args[0]))
+	return exitBadInput
+}
+
+func code(err error, stderr io.Writer) int {
+	if err == nil {
+		return exitOK
+	}
+	var ee exitError
+	if errors.As(err, &ee) {
+		return ee.code
+	}
+	fmt.Fprintln(stderr, "chargeward:", err)
+	return exitBadInput
+}
+
+func usage(w io.Writer) {
+	fmt.Fprintf(w, "chargeward %s: hazard reviews for charged-capacitor bench rigs\n\nUsage: chargeward COMMAND [options] [arguments]\n\nCommands:\n", Version)
+	names := make([]string, 0, len(commands))
+	for _, c := range commands {
+		names = append(names, fmt.Sprintf("  %-9s %s", c.name, c.summary))
+	}
+	fmt.Fprintln(w, strings.Join(names, "\n"))
+	fmt.Fprintln(w, "\nRun 'chargeward COMMAND --help' for a command's options.")
+	fmt.Fprintln(w, "This tool is an engineering aid. It does not replace local codes, your institution's electrical")
+	fmt.Fprintln(w, "safety program, or the judgement of qualified, licensed persons.")
+}
+
+func suggestCommand(s string) string {
+	best, bd := "", 3
+	for _, c := range commands {
+		if d := editDistance(s, c.name); d < bd {
+			best, bd = c.name, d
+		}
+	}
+	if best == "" {
+		return ""
+	}
+	return fmt.Sprintf(" (did you mean %q?)", best)
+}
+
+// editDistance is the Levenshtein distance, for suggestions.
+func editDistance(a, b string) int {
+	ra, rb := []rune(a), []rune(b)
+	prev := make([]int, len(rb)+1)
+	for j := range prev {
+		prev[j] = j
+	}
+	for i := 1; i <= len(ra); i++ {
+		cur := make([]int, len(rb)+1)
+		cur[0] = i
+		for j := 1; j <= len(rb); j++ {
+			cost := 1
+			if ra[i-1] == rb[j-1] {
+				cost = 0
+			}
+			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
+		}
+		prev = cur
+	}
+	return prev[len(rb)]
+}
