@@ -54,7 +54,7 @@ func fixtureReview(t testing.TB, n int, name string) *rules.Review {
 		Basis: "rig measurement"})
 	add(hazards.Quantity{Name: "bank.energy", Value: 546.7, Worst: hazards.Worst(656.1), Unit: "J", Formula: "E = ½·C·V²",
 		Inputs: []hazards.Input{{Symbol: "C", Name: "bank.capacitance", Value: 2.2e-3, Unit: "F"}, {Symbol: "V", Name: "bank.voltage", Value: 705, Unit: "V"}},
-		Basis: "energy of a capacitor, any physics text"})
+		Basis:  "energy of a capacitor, any physics text"})
 	add(hazards.Quantity{Name: "discharge.time_to_safe", Value: 586, Worst: hazards.Worst(640), Unit: "s",
 		Formula: "t = τ·ln(V0/Vsafe)", Basis: "RC decay", Inputs: []hazards.Input{{Symbol: "τ", Name: "discharge.time_constant", Value: 220, Unit: "s"}}})
 	add(hazards.Quantity{Name: "pulse.peak_current", Value: 3270, Worst: hazards.Worst(3610), Unit: "A", Formula: "RLC closed form",

@@ -74,7 +74,7 @@ func prefixed(v float64, unit string, lo, hi int) string {
 		return "0 " + unit
 	}
 	r := round3(v) // round first so that 999.7 becomes 1000 and takes the next prefix
-	e := int(math.Floor(math.Log10(math.Abs(r)) / 3)) * 3
+	e := int(math.Floor(math.Log10(math.Abs(r))/3)) * 3
 	e = max(lo, min(hi, e))
 	return sig3(r/math.Pow(10, float64(e))) + " " + prefixes[e] + unit
 }

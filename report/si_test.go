@@ -26,17 +26,17 @@ func TestSI(t *testing.T) {
 		{705, "V", "705 V"},
 		{0, "V", "0 V"},
 		{-230, "V", "-230 V"},
-		{999.7, "V", "1 kV"},      // rounds to 1.00×10³ and takes the next prefix
-		{0.0009996, "A", "1 mA"},  // 9.996×10⁻⁴ rounds to 1.00×10⁻³
-		{4120, "s", "4120 s"},     // seconds take no multiple prefix
-		{2.5e-6, "s", "2.5 µs"},   // µ is U+00B5 MICRO SIGN, as in the fonts' WGL4 set
+		{999.7, "V", "1 kV"},     // rounds to 1.00×10³ and takes the next prefix
+		{0.0009996, "A", "1 mA"}, // 9.996×10⁻⁴ rounds to 1.00×10⁻³
+		{4120, "s", "4120 s"},    // seconds take no multiple prefix
+		{2.5e-6, "s", "2.5 µs"},  // µ is U+00B5 MICRO SIGN, as in the fonts' WGL4 set
 		{1.2e-3, "H", "1.2 mH"},
 		{47e-12, "F", "47 pF"},
 		{2.7, "m", "2.7 m"},
 		{1.5e-3, "m", "1.5 mm"},
-		{6e-6, "m²", "6 mm²"},       // 1 mm² = 10⁻⁶ m²
-		{0.012, "kg", "12 g"},       // 1 g = 10⁻³ kg
-		{150e6, "A/s", "150 A/µs"},  // 1 A/µs = 10⁶ A/s
+		{6e-6, "m²", "6 mm²"},      // 1 mm² = 10⁻⁶ m²
+		{0.012, "kg", "12 g"},      // 1 g = 10⁻³ kg
+		{150e6, "A/s", "150 A/µs"}, // 1 A/µs = 10⁶ A/s
 		{51200, "A²s", "5.12×10⁴ A²s"},
 		{850, "A²s", "850 A²s"},
 		{0.62, "1", "0.62"},
