@@ -4,6 +4,9 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"sort"
+
+	"gonum.org/v1/gonum/integrate/quad"
 )
 
 // LoopModel is the series R-L-C discharge loop as later stages use it. Owner: pulse and coil (issue 4).
@@ -18,129 +21,616 @@ type LoopModel struct {
 	Topology string  // "unidirectional", "antiparallel-diode" or "crowbar"
 	// CrowbarAt is "coil" or "bank" for a crowbar topology.
 	CrowbarAt string
+
+	// BankR is the part of R inside the bank's terminals (the bank ESR), Ω. Only a crowbar at the bank uses
+	// it: its diode clamps the bank terminals, so the ESR leaves the current path once the clamp conducts.
+	BankR float64
 }
 
-// PulseResult is the coil-only discharge of a LoopModel.
+// Topologies of the firing switch.
+const (
+	Unidirectional    = "unidirectional"
+	AntiparallelDiode = "antiparallel-diode"
+	Crowbar           = "crowbar"
+)
+
+// PulseResult is the coil-only discharge of a LoopModel, evaluated in closed form piece by piece.
 type PulseResult struct {
-	Regime      string  // "underdamped", "critically damped" or "overdamped"
-	Zeta        float64 // damping ratio ζ = (R/2)√(C/L)
+	Regime      string  // "underdamped", "critically damped" or "overdamped" (of the full loop from rest)
+	Zeta        float64 // damping ratio ζ = (R/2)√(C/L) of the full loop
 	PeakCurrent float64 // A, largest coil current
 	TimeToPeak  float64 // s
-	End         float64 // s, end of the modelled pulse (last current zero, or the current below 1e-4 of its peak)
+	DiDtMax     float64 // A/s, largest rate of rise, at turn-on: (V0 − Vd)/L
+	FirstZero   float64 // s, end of the first current lobe (the first current zero, or End if there is none)
+	End         float64 // s, end of the modelled pulse: the last current zero, or all currents below 1e-4 of the peak
+	Width       float64 // s, full width of the coil current at half its peak (first lobe)
+	VEnd        float64 // V, bank voltage at End (negative: reversed)
+	Reversal    float64 // 1, largest reversed bank voltage as a fraction of V0 (0 if the bank never reverses)
+	CrowbarTime float64 // s, when the crowbar diode starts to conduct (0 when there is none or it never conducts)
+	HalfCycles  int     // current lobes modelled (antiparallel diode: the ring-down; otherwise 1)
+	Residual    float64 // J, energy still in the inductances where a decaying current was cut at 1e-4 of the peak
 
-	seg rlcSegment
+	SwitchI2t    float64 // A²s, ∫ i² dt through the firing switch (forward direction)
+	DiodeI2t     float64 // A²s, through the antiparallel or crowbar diode
+	CoilI2t      float64 // A²s, through the coil
+	BankI2t      float64 // A²s, through the bank (its ESR)
+	SwitchCharge float64 // C, ∫ |i| dt through switch and antiparallel diode (forward-drop loss = Vd · charge)
+	CoilHeat     float64 // J, CoilR · CoilI2t
+	LoopHeat     float64 // J, resistive loss outside the coil (ESR, wiring, switch slope resistance)
+
+	pieces []piece
 }
 
-// rlcSegment is one interval of a series R-L-C loop carrying current in one direction: with u = vC − Vd,
-// u” + 2α u' + ω0² u = 0, i = −C u'. S(t) and Cs(t) are the unified sine/hyperbolic-sine pair of the
-// damped solution (q = ω0² − α²): S = sin(√q t)/√q, Cs = cos(√q t) for q > 0, the hyperbolic forms for q < 0,
-// and their series about q = 0 near critical damping.
+// wave is one closed-form branch current or bank voltage over a piece.
+type wave struct {
+	kind    waveKind
+	seg     rlcSegment // kind rlc
+	t0      float64    // start of the piece, s
+	a, off  float64    // kind exp: x(t) = (a + off) e^{−(t−t0)/tau} − off
+	tau     float64    // kind exp: time constant, s
+	constV  float64    // kind constant
+	negated bool       // report −x (a branch that carries the loop current backwards)
+}
+
+type waveKind int
+
+const (
+	wZero waveKind = iota
+	wRLCCurrent
+	wRLCVoltage
+	wExp
+	wConst
+)
+
+func (w wave) at(t float64) float64 {
+	var x float64
+	switch w.kind {
+	case wRLCCurrent:
+		x = w.seg.current(t)
+	case wRLCVoltage:
+		x = w.seg.voltage(t)
+	case wExp:
+		x = (w.a+w.off)*math.Exp(-(t-w.t0)/w.tau) - w.off
+	case wConst:
+		x = w.constV
+	}
+	if w.negated {
+		return -x
+	}
+	return x
+}
+
+// piece is an interval on which every branch has one closed form.
+type piece struct {
+	t0, t1         float64
+	coil, sw, diod wave // coil, switch (forward) and diode currents, A
+	bank           wave // bank current, A (through its ESR)
+	v              wave // bank voltage, V
+	// rBank is the resistance outside the coil that carries the bank current in this piece, Ω; rSw the one
+	// that carries the switch current where it differs from the bank current (crowbar at the bank), Ω.
+	rBank, rSw float64
+}
+
+// rlcSegment is one interval of a series R-L-C loop carrying current in one direction. With u = vC − Vd the
+// loop obeys d²u/dt² + 2α du/dt + ω0² u = 0 and i = −C du/dt. S(τ) and Cs(τ) are the unified pair of the
+// damped solution (q = ω0² − α²): S = sin(√q τ)/√q, Cs = cos(√q τ) for q > 0, the hyperbolic forms for q < 0,
+// and their series about q = 0 near critical damping, so one expression covers all three regimes.
 type rlcSegment struct {
 	t0, l, c, alpha, q, u0, i0, drop float64
 }
 
-// sc returns S(t) and Cs(t).
-func (s rlcSegment) sc(t float64) (S, Cs float64) {
-	x := s.q * t * t
+// sc returns S(τ) and Cs(τ).
+func (s rlcSegment) sc(tau float64) (S, Cs float64) {
+	x := s.q * tau * tau
 	switch {
 	case math.Abs(x) < 1e-6:
-		// Taylor series of sin(√q t)/√q and cos(√q t) in q t²: truncation error below 1e-19 relative.
-		return t * (1 - x/6 + x*x/120), 1 - x/2 + x*x/24
+		// Taylor series of sin(√q τ)/√q and cos(√q τ) in qτ²: the first omitted terms are below 1e-21.
+		return tau * (1 - x/6 + x*x/120), 1 - x/2 + x*x/24
 	case s.q > 0:
 		w := math.Sqrt(s.q)
-		return math.Sin(w*t) / w, math.Cos(w * t)
+		return math.Sin(w*tau) / w, math.Cos(w * tau)
 	default:
 		b := math.Sqrt(-s.q)
-		return math.Sinh(b*t) / b, math.Cosh(b * t)
+		return math.Sinh(b*tau) / b, math.Cosh(b * tau)
 	}
 }
 
-// current returns the loop current at time t ≥ t0:
-// i = e^{−α τ}[i0 Cs + (u0/L − α i0) S], τ = t − t0.
+// current returns the loop current: i = e^{−ατ}[i0 Cs + (u0/L − α i0) S], τ = t − t0.
 func (s rlcSegment) current(t float64) float64 {
 	tau := t - s.t0
 	S, Cs := s.sc(tau)
 	return math.Exp(-s.alpha*tau) * (s.i0*Cs + (s.u0/s.l-s.alpha*s.i0)*S)
 }
 
-// voltage returns the capacitor voltage: vC = Vd + e^{−α τ}[u0 Cs + (α u0 − i0/C) S].
+// voltage returns the capacitor voltage: vC = Vd + e^{−ατ}[u0 Cs + (α u0 − i0/C) S].
 func (s rlcSegment) voltage(t float64) float64 {
 	tau := t - s.t0
 	S, Cs := s.sc(tau)
 	return s.drop + math.Exp(-s.alpha*tau)*(s.u0*Cs+(s.alpha*s.u0-s.i0/s.c)*S)
 }
 
+// zeroCsKS returns the first τ > 0 with Cs(τ) − κ S(τ) = 0, and whether there is one. Every event of the pulse
+// is of this form: the current peak (κ = α), a current zero (κ = α − u0/(L i0)), the coil voltage reversing
+// (κ = α − Rc/Lc). Underdamped: τ = atan2(√q, κ)/√q; critically damped: 1/κ (κ > 0); overdamped:
+// atanh(√−q/κ)/√−q (κ > √−q).
+func zeroCsKS(kappa, q float64) (float64, bool) {
+	switch {
+	case q > 0:
+		w := math.Sqrt(q)
+		return math.Atan2(w, kappa) / w, true
+	case q == 0:
+		if kappa > 0 {
+			return 1 / kappa, true
+		}
+	default:
+		b := math.Sqrt(-q)
+		if kappa > b {
+			return math.Atanh(b/kappa) / b, true
+		}
+	}
+	return 0, false
+}
+
+// newSegment returns the R-L-C segment starting at t0 with loop L, R, C, drop (signed, V), capacitor voltage
+// v0 and current i0.
+func newSegment(t0, l, r, c, drop, v0, i0 float64) rlcSegment {
+	alpha := r / (2 * l)
+	return rlcSegment{t0: t0, l: l, c: c, alpha: alpha, q: 1/(l*c) - alpha*alpha, u0: v0 - drop, i0: i0, drop: drop}
+}
+
+// segmentZero returns the first current zero after t0 of a segment whose current is positive just after t0
+// (forward lobe) and whether there is one.
+func segmentZero(s rlcSegment) (float64, bool) {
+	if s.i0 == 0 {
+		// i ∝ S(τ): zero at π/√q when underdamped, never otherwise.
+		if s.q > 0 {
+			return s.t0 + math.Pi/math.Sqrt(s.q), true
+		}
+		return 0, false
+	}
+	tau, ok := zeroCsKS(s.alpha-s.u0/(s.l*s.i0), s.q)
+	return s.t0 + tau, ok
+}
+
 // ErrLoop is returned (wrapped) for a loop the pulse model cannot evaluate.
 var ErrLoop = errors.New("discharge loop cannot be evaluated")
 
+// tailFraction is where a current that never returns to zero is considered ended: 1e-4 of the peak, when
+// its remaining I²t is below 1e-8 of the pulse's.
+const tailFraction = 1e-4
+
+// maxHalfCycles bounds the ring-down of an antiparallel-diode loop; at ζ ≥ 0.001 the current has fallen
+// below 1e-4 of its peak well before.
+const maxHalfCycles = 20000
+
 // RLCPulse returns the closed-form discharge of the series R-L-C loop l from V0 with the coil alone (no
-// projectile). With total resistance R, inductance L, capacitance C and a constant switch drop Vd, the loop
-// obeys L di/dt + R i + Vd = vC, C dvC/dt = −i, whose solution with α = R/2L, ω0² = 1/LC is
+// projectile). With total resistance R, inductance L, capacitance C and a constant switch drop Vd, each
+// conduction interval obeys L di/dt + R i + Vd·sgn(i) = vC, C dvC/dt = −i, whose solution from rest with
+// α = R/2L, ω0² = 1/LC is
 //
 //	i(t)  = (V0 − Vd)/L · e^{−αt} S(t),   vC(t) = Vd + (V0 − Vd) e^{−αt} [Cs(t) + α S(t)]
 //
 // with S = sin(ωd t)/ωd, Cs = cos(ωd t) (underdamped, ωd² = ω0² − α² > 0), S = t, Cs = 1 (critically damped),
-// sinh/cosh (overdamped) — the standard series-RLC transient (e.g. Nilsson & Riedel, Electric Circuits,
-// ch. 8). Units: F, V, Ω, H, s, A. Valid for C, L > 0, R ≥ 0, 0 ≤ Vd < V0.
+// sinh/cosh (overdamped) — the standard series-RLC transient (e.g. J. W. Nilsson & S. A. Riedel, Electric
+// Circuits, ch. 8). The topology decides what follows:
+//
+//   - unidirectional: conduction stops at the first current zero; the bank keeps the reversed voltage.
+//   - antiparallel-diode: the diode carries the reverse lobes (same drop Vd assumed); the loop rings down,
+//     lobe after lobe, until |vC| ≤ Vd or the current is below 1e-4 of its peak.
+//   - crowbar at the coil: an ideal diode across the coil conducts once the coil voltage Lc di/dt + Rc i
+//     reaches zero; the coil current then decays as e^{−Rc t/Lc} and the bank loop (stray L, R) finishes its
+//     own lobe, reversing the bank only by the stray inductance's energy.
+//   - crowbar at the bank: an ideal diode across the bank terminals conducts once vC − BankR·i reaches zero;
+//     the loop current then decays through R − BankR + Rc with the switch drop, and the bank's residual
+//     BankR·i discharges through its ESR (no reversal).
+//
+// Integrals (I²t, charge) are 16-point Gauss–Legendre sums over 8 subintervals of each piece (gonum
+// integrate/quad nodes), exact to rounding for these analytic pieces. Units: F, V, Ω, H, s, A. Valid for
+// C, L > 0, R ≥ 0, 0 ≤ Vd < V0; a crowbar needs a positive resistance in the clamped loop.
 func RLCPulse(l LoopModel) (PulseResult, error) {
 	lt := l.L + l.CoilL
 	rt := l.R + l.CoilR
-	if !(l.C > 0 && lt > 0 && rt >= 0 && l.V0 > 0 && l.Drop >= 0) || !finite(l.C, lt, rt, l.V0, l.Drop) {
-		return PulseResult{}, fmt.Errorf("%w: need C > 0, L > 0, R ≥ 0, V0 > 0, drop ≥ 0 (C %g F, L %g H, R %g Ω, V0 %g V, drop %g V)", ErrLoop, l.C, lt, rt, l.V0, l.Drop)
+	if !finite(l.C, l.L, l.CoilL, l.R, l.CoilR, l.V0, l.Drop, l.BankR) {
+		return PulseResult{}, fmt.Errorf("%w: non-finite loop value", ErrLoop)
+	}
+	if !(l.C > 0 && lt > 0 && l.L >= 0 && l.CoilL >= 0 && l.R >= 0 && l.CoilR >= 0 && l.V0 > 0 && l.Drop >= 0 && l.BankR >= 0 && l.BankR <= l.R) {
+		return PulseResult{}, fmt.Errorf("%w: need C > 0, L > 0, R ≥ 0, V0 > 0, drop ≥ 0, 0 ≤ BankR ≤ R (C %g F, L %g H, R %g Ω, V0 %g V, drop %g V)", ErrLoop, l.C, lt, rt, l.V0, l.Drop)
 	}
 	if l.Drop >= l.V0 {
 		return PulseResult{}, fmt.Errorf("%w: switch drop %g V is not below the bank voltage %g V", ErrLoop, l.Drop, l.V0)
 	}
-	if l.Topology != "" && l.Topology != "unidirectional" {
-		return PulseResult{}, fmt.Errorf("%w: topology %q not yet modelled", ErrLoop, l.Topology)
-	}
-	alpha := rt / (2 * lt)
-	w0sq := 1 / (lt * l.C)
-	s := rlcSegment{l: lt, c: l.C, alpha: alpha, q: w0sq - alpha*alpha, u0: l.V0 - l.Drop, drop: l.Drop}
-	p := PulseResult{Zeta: alpha / math.Sqrt(w0sq), seg: s}
+	first := newSegment(0, lt, rt, l.C, l.Drop, l.V0, 0)
+	p := PulseResult{Zeta: first.alpha * math.Sqrt(lt*l.C), HalfCycles: 1}
 	switch {
+	case math.Abs(p.Zeta-1) <= 1e-9:
+		p.Regime = "critically damped"
 	case p.Zeta < 1:
 		p.Regime = "underdamped"
-		wd := math.Sqrt(s.q)
-		p.TimeToPeak = math.Atan(wd/alpha) / wd
-		if alpha == 0 {
-			p.TimeToPeak = math.Pi / (2 * wd)
-		}
-		p.End = math.Pi / wd
-	case p.Zeta == 1:
-		p.Regime = "critically damped"
-		p.TimeToPeak = 1 / alpha
 	default:
 		p.Regime = "overdamped"
-		b := math.Sqrt(-s.q)
-		p.TimeToPeak = math.Log((alpha+b)/(alpha-b)) / (2 * b)
 	}
-	p.PeakCurrent = s.current(p.TimeToPeak)
-	if p.Zeta >= 1 {
-		// No current zero: end where the slow exponential has fallen to 1e-4 of the peak.
-		slow := alpha - math.Sqrt(math.Max(-s.q, 0))
-		p.End = p.TimeToPeak + math.Log(1e4)/slow
+	tpk, _ := zeroCsKS(first.alpha, first.q) // always exists for a lobe from rest
+	p.TimeToPeak = tpk
+	p.PeakCurrent = first.current(tpk)
+	p.DiDtMax = first.u0 / lt
+	zero, hasZero := segmentZero(first)
+	tailEnd := func(s rlcSegment) float64 {
+		// slowest decay rate of the segment: α − √(−q) when overdamped, α otherwise.
+		rate := s.alpha
+		if s.q < 0 {
+			rate = s.alpha - math.Sqrt(-s.q)
+		}
+		// from the later of its start and its peak, the current falls by e^{−rate·t}.
+		return s.t0 + tpk + math.Log(1/tailFraction)/rate
+	}
+	fwd := func(s rlcSegment, t0, t1 float64, r float64) piece {
+		cur := wave{kind: wRLCCurrent, seg: s}
+		return piece{t0: t0, t1: t1, coil: cur, sw: cur, bank: cur, v: wave{kind: wRLCVoltage, seg: s}, rBank: r}
+	}
+	topo := l.Topology
+	if topo == "" {
+		topo = Unidirectional
+	}
+	switch topo {
+	case Unidirectional, AntiparallelDiode:
+		end := zero
+		if !hasZero {
+			end = tailEnd(first)
+		}
+		p.pieces = append(p.pieces, fwd(first, 0, end, l.R))
+		p.FirstZero = end
+		p.Reversal = math.Max(0, -first.voltage(end)/l.V0)
+		if topo == AntiparallelDiode && hasZero {
+			p.ringDown(l, lt, rt, end)
+		}
+	case Crowbar:
+		switch l.CrowbarAt {
+		case "", "coil":
+			if err := p.crowbarCoil(l, first, zero, hasZero, tailEnd); err != nil {
+				return PulseResult{}, err
+			}
+		case "bank":
+			if err := p.crowbarBank(l, first, zero, hasZero, tailEnd); err != nil {
+				return PulseResult{}, err
+			}
+		default:
+			return PulseResult{}, fmt.Errorf("%w: crowbar position %q (want coil or bank)", ErrLoop, l.CrowbarAt)
+		}
+	default:
+		return PulseResult{}, fmt.Errorf("%w: topology %q (want %s, %s or %s)", ErrLoop, l.Topology, Unidirectional, AntiparallelDiode, Crowbar)
+	}
+	last := p.pieces[len(p.pieces)-1]
+	p.End = last.t1
+	p.VEnd = last.v.at(p.End)
+	if p.CrowbarTime == 0 || l.CrowbarAt == "bank" {
+		i := last.coil.at(p.End)
+		p.Residual = 0.5 * lt * i * i
+	}
+	p.integrate(l)
+	p.Width = p.halfWidth()
+	if !finite(p.PeakCurrent, p.TimeToPeak, p.DiDtMax, p.End, p.VEnd, p.Reversal, p.SwitchI2t, p.CoilI2t, p.DiodeI2t, p.BankI2t, p.Width) {
+		return PulseResult{}, fmt.Errorf("%w: the closed form overflowed (ζ = %g)", ErrLoop, p.Zeta)
 	}
 	return p, nil
 }
 
-// Current returns the coil current at time t (s), A; zero outside [0, End].
-func (p PulseResult) Current(t float64) float64 {
-	if t < 0 || t > p.End {
-		return 0
+// ringDown appends the reverse and later lobes of an antiparallel-diode loop from t, the first current zero.
+func (p *PulseResult) ringDown(l LoopModel, lt, rt, t float64) {
+	v := p.pieces[0].v.at(t)
+	p.Reversal = math.Max(0, -v/l.V0)
+	for n := 1; n < maxHalfCycles; n++ {
+		sign := 1.0
+		if v < 0 {
+			sign = -1
+		}
+		if math.Abs(v) <= l.Drop {
+			return // the drop holds the rest of the charge
+		}
+		// mirror the lobe so that the segment always carries positive current: x = sign·i, w = sign·vC.
+		s := newSegment(t, lt, rt, l.C, l.Drop, sign*v, 0)
+		t1 := t + math.Pi/math.Sqrt(s.q)
+		cur := wave{kind: wRLCCurrent, seg: s, negated: sign < 0}
+		pc := piece{t0: t, t1: t1, coil: cur, bank: cur, v: wave{kind: wRLCVoltage, seg: s, negated: sign < 0}, rBank: l.R}
+		if sign > 0 {
+			pc.sw = cur
+		} else {
+			pc.diod = cur
+		}
+		p.pieces = append(p.pieces, pc)
+		p.HalfCycles++
+		amp := math.Abs(s.current(t + (p.TimeToPeak)))
+		t, v = t1, pc.v.at(t1)
+		if v < 0 {
+			p.Reversal = math.Max(p.Reversal, -v/l.V0)
+		}
+		if amp < tailFraction*p.PeakCurrent {
+			return
+		}
 	}
-	return p.seg.current(t)
 }
 
-// BankVoltage returns the bank (capacitor) voltage at time t (s), V; the final value after End.
+// crowbarCoil builds the pieces of a crowbar diode across the coil.
+func (p *PulseResult) crowbarCoil(l LoopModel, first rlcSegment, zero float64, hasZero bool, tailEnd func(rlcSegment) float64) error {
+	// Coil voltage Lc i' + Rc i ∝ Lc (Cs − αS) + Rc S: zero where Cs − (α − Rc/Lc) S = 0.
+	tc, ok := 0.0, false
+	if l.CoilL > 0 {
+		tc, ok = zeroCsKS(first.alpha-l.CoilR/l.CoilL, first.q)
+	}
+	if !ok || (hasZero && tc >= zero) {
+		// The clamp never conducts: the loop behaves as unidirectional.
+		end := zero
+		if !hasZero {
+			end = tailEnd(first)
+		}
+		cur := wave{kind: wRLCCurrent, seg: first}
+		p.pieces = append(p.pieces, piece{t0: 0, t1: end, coil: cur, sw: cur, bank: cur, v: wave{kind: wRLCVoltage, seg: first}, rBank: l.R})
+		p.FirstZero = end
+		p.Reversal = math.Max(0, -first.voltage(end)/l.V0)
+		return nil
+	}
+	if l.CoilR <= 0 {
+		return fmt.Errorf("%w: a crowbar across the coil needs coil resistance > 0", ErrLoop)
+	}
+	p.CrowbarTime = tc
+	ic, vc := first.current(tc), first.voltage(tc)
+	cur := wave{kind: wRLCCurrent, seg: first}
+	p.pieces = append(p.pieces, piece{t0: 0, t1: tc, coil: cur, sw: cur, bank: cur, v: wave{kind: wRLCVoltage, seg: first}, rBank: l.R})
+	// Coil loop: ideal diode, i = ic e^{−(t−tc)Rc/Lc}.
+	tauC := l.CoilL / l.CoilR
+	coilEnd := tc + tauC*math.Log(ic/(tailFraction*p.PeakCurrent))
+	coil := wave{kind: wExp, t0: tc, a: ic, tau: tauC}
+	// Bank loop: C, stray L, R, drop; it finishes its lobe.
+	var bankI, bankV wave
+	bankEnd := tc
+	vEnd := vc
+	switch {
+	case l.L > 0:
+		s := newSegment(tc, l.L, l.R, l.C, l.Drop, vc, ic)
+		if z, ok := segmentZero(s); ok {
+			bankEnd = z
+		} else {
+			bankEnd = tailEnd(s)
+		}
+		bankI, bankV = wave{kind: wRLCCurrent, seg: s}, wave{kind: wRLCVoltage, seg: s}
+		vEnd = s.voltage(bankEnd)
+	case l.R > 0:
+		// No stray inductance: R-C decay toward Vd, i = (vC − Vd)/R.
+		tau := l.R * l.C
+		i0 := (vc - l.Drop) / l.R
+		if i0 > 0 {
+			bankEnd = tc + tau*math.Log(i0/(tailFraction*p.PeakCurrent))
+			bankI = wave{kind: wExp, t0: tc, a: i0, tau: tau}
+			bankV = wave{kind: wExp, t0: tc, a: vc - l.Drop, off: -l.Drop, tau: tau}
+			vEnd = bankV.at(bankEnd)
+		} else {
+			bankV = wave{kind: wConst, constV: vc}
+		}
+	default:
+		bankV = wave{kind: wConst, constV: vc}
+	}
+	split := math.Min(coilEnd, bankEnd)
+	if split > tc {
+		p.pieces = append(p.pieces, piece{t0: tc, t1: split, coil: coil, sw: bankI, bank: bankI, v: bankV, rBank: l.R,
+			diod: wave{}}) // the diode current ic_coil − i_bank is reported through DiodeI2t below
+	}
+	if coilEnd > split {
+		p.pieces = append(p.pieces, piece{t0: split, t1: coilEnd, coil: coil, v: wave{kind: wConst, constV: vEnd}})
+	} else if bankEnd > split {
+		p.pieces = append(p.pieces, piece{t0: split, t1: bankEnd, sw: bankI, bank: bankI, v: bankV, rBank: l.R})
+	}
+	p.FirstZero = math.Max(coilEnd, bankEnd)
+	p.Reversal = math.Max(0, -vEnd/l.V0)
+	icEnd := coil.at(coilEnd)
+	p.Residual = 0.5 * l.CoilL * icEnd * icEnd
+	if l.L > 0 {
+		ib := bankI.at(bankEnd)
+		p.Residual += 0.5 * l.L * ib * ib
+	}
+	return nil
+}
+
+// crowbarBank builds the pieces of a crowbar diode across the bank terminals.
+func (p *PulseResult) crowbarBank(l LoopModel, first rlcSegment, zero float64, hasZero bool, tailEnd func(rlcSegment) float64) error {
+	// Terminal voltage vT = vC − BankR·i; find its first zero in the first lobe by bisection (it is positive
+	// at t = 0 and negative at the current zero when the bank reverses).
+	vt := func(t float64) float64 { return first.voltage(t) - l.BankR*first.current(t) }
+	if !hasZero || vt(zero) >= 0 {
+		end := zero
+		if !hasZero {
+			end = tailEnd(first)
+		}
+		cur := wave{kind: wRLCCurrent, seg: first}
+		p.pieces = append(p.pieces, piece{t0: 0, t1: end, coil: cur, sw: cur, bank: cur, v: wave{kind: wRLCVoltage, seg: first}, rBank: l.R})
+		p.FirstZero = end
+		p.Reversal = math.Max(0, -first.voltage(end)/l.V0)
+		return nil
+	}
+	lo, hi := 0.0, zero
+	for i := 0; i < 200 && hi-lo > 1e-15*zero; i++ {
+		mid := (lo + hi) / 2
+		if vt(mid) > 0 {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	tc := (lo + hi) / 2
+	p.CrowbarTime = tc
+	ic, vc := first.current(tc), first.voltage(tc)
+	cur := wave{kind: wRLCCurrent, seg: first}
+	p.pieces = append(p.pieces, piece{t0: 0, t1: tc, coil: cur, sw: cur, bank: cur, v: wave{kind: wRLCVoltage, seg: first}, rBank: l.R})
+	rFree := l.R - l.BankR // wiring and switch, outside the clamp
+	rl := rFree + l.CoilR
+	if rl <= 0 {
+		return fmt.Errorf("%w: a crowbar across the bank needs resistance > 0 in the coil loop", ErrLoop)
+	}
+	lt := l.L + l.CoilL
+	tau := lt / rl
+	var end float64
+	off := l.Drop / rl
+	if l.Drop > 0 {
+		end = tc + tau*math.Log(1+ic/off) // i reaches zero: the switch stops conducting
+	} else {
+		end = tc + tau*math.Log(ic/(tailFraction*p.PeakCurrent))
+	}
+	loopI := wave{kind: wExp, t0: tc, a: ic, off: off, tau: tau}
+	var bankI, bankV wave
+	if l.BankR > 0 && vc > 0 {
+		tb := l.BankR * l.C
+		bankV = wave{kind: wExp, t0: tc, a: vc, tau: tb}
+		bankI = wave{kind: wExp, t0: tc, a: vc / l.BankR, tau: tb}
+	} else {
+		bankV = wave{kind: wConst, constV: math.Max(vc, 0)}
+	}
+	p.pieces = append(p.pieces, piece{t0: tc, t1: end, coil: loopI, sw: loopI, bank: bankI, v: bankV, rBank: l.BankR, rSw: rFree})
+	p.FirstZero = end
+	return nil
+}
+
+// glX, glW are the 16-point Gauss–Legendre nodes and weights on [−1, 1] (gonum integrate/quad).
+var glX, glW = func() ([]float64, []float64) {
+	x, w := make([]float64, 16), make([]float64, 16)
+	quad.Legendre{}.FixedLocations(x, w, -1, 1)
+	return x, w
+}()
+
+// integrals are the quantities integrate accumulates over a piece.
+type integrals struct{ coil, sw, diode, bank, charge, loss float64 }
+
+func (a integrals) add(b integrals) integrals {
+	return integrals{a.coil + b.coil, a.sw + b.sw, a.diode + b.diode, a.bank + b.bank, a.charge + b.charge, a.loss + b.loss}
+}
+
+// gl16 returns the 16-point Gauss–Legendre sums of the integrands of pc over [a, b].
+func (pc *piece) gl16(a, b float64) integrals {
+	var s integrals
+	h := (b - a) / 2
+	for j, x := range glX {
+		t := a + h*(x+1)
+		w := glW[j] * h
+		ic, is, id, ib := pc.coil.at(t), pc.sw.at(t), pc.diod.at(t), pc.bank.at(t)
+		if pc.coil.kind == wExp && pc.sw.kind != wExp {
+			id = ic - is // crowbar at the coil: the diode carries the difference
+		}
+		s.coil += w * ic * ic
+		s.sw += w * is * is
+		s.diode += w * id * id
+		s.bank += w * ib * ib
+		s.charge += w * (math.Abs(is) + math.Abs(pc.diod.at(t)))
+		s.loss += w * (ib*ib*pc.rBank + is*is*pc.rSw)
+	}
+	return s
+}
+
+// adapt integrates pc over [a, b] by recursive bisection until the 16-point rule on the halves agrees with
+// the whole to tol (A²s) in every integrand.
+func (pc *piece) adapt(a, b float64, whole integrals, tol float64, depth int) integrals {
+	m := (a + b) / 2
+	l, r := pc.gl16(a, m), pc.gl16(m, b)
+	sum := l.add(r)
+	d := math.Max(math.Max(math.Abs(sum.coil-whole.coil), math.Abs(sum.sw-whole.sw)), math.Max(math.Abs(sum.diode-whole.diode), math.Abs(sum.bank-whole.bank)))
+	if d <= tol || depth >= 40 {
+		return sum
+	}
+	return pc.adapt(a, m, l, tol/2, depth+1).add(pc.adapt(m, b, r, tol/2, depth+1))
+}
+
+// integrate fills the action integrals, the switch charge and the heat. The integrands are analytic on each
+// piece; adaptive 16-point Gauss–Legendre (nodes from gonum integrate/quad) converges to 1e-13 of Ipk²·End.
+func (p *PulseResult) integrate(l LoopModel) {
+	tol := 1e-13 * p.PeakCurrent * p.PeakCurrent * p.End
+	var s integrals
+	for i := range p.pieces {
+		pc := &p.pieces[i]
+		s = s.add(pc.adapt(pc.t0, pc.t1, pc.gl16(pc.t0, pc.t1), tol, 0))
+	}
+	p.CoilI2t, p.SwitchI2t, p.DiodeI2t, p.BankI2t, p.SwitchCharge, p.LoopHeat = s.coil, s.sw, s.diode, s.bank, s.charge, s.loss
+	p.CoilHeat = l.CoilR * p.CoilI2t
+}
+
+// halfWidth returns the full width at half maximum of the coil current's first lobe, by bisection on the
+// closed form.
+func (p *PulseResult) halfWidth() float64 {
+	half := p.PeakCurrent / 2
+	bisect := func(lo, hi float64, rising bool) float64 {
+		for i := 0; i < 200 && hi-lo > 1e-15*p.End; i++ {
+			mid := (lo + hi) / 2
+			if (p.Current(mid) < half) == rising {
+				lo = mid
+			} else {
+				hi = mid
+			}
+		}
+		return (lo + hi) / 2
+	}
+	t1 := bisect(0, p.TimeToPeak, true)
+	t2 := bisect(p.TimeToPeak, p.FirstZero, false)
+	return t2 - t1
+}
+
+// find returns the piece holding t, or −1.
+func (p PulseResult) find(t float64) int {
+	if len(p.pieces) == 0 || t < 0 || t > p.End {
+		return -1
+	}
+	i := sort.Search(len(p.pieces), func(i int) bool { return p.pieces[i].t1 >= t })
+	if i == len(p.pieces) {
+		return -1
+	}
+	return i
+}
+
+// Current returns the coil current at time t (s), A; zero outside [0, End].
+func (p PulseResult) Current(t float64) float64 {
+	if i := p.find(t); i >= 0 {
+		return p.pieces[i].coil.at(t)
+	}
+	return 0
+}
+
+// SwitchCurrent returns the current through the firing switch in its forward direction at time t, A.
+func (p PulseResult) SwitchCurrent(t float64) float64 {
+	if i := p.find(t); i >= 0 {
+		return p.pieces[i].sw.at(t)
+	}
+	return 0
+}
+
+// BankCurrent returns the current out of the bank at time t, A.
+func (p PulseResult) BankCurrent(t float64) float64 {
+	if i := p.find(t); i >= 0 {
+		return p.pieces[i].bank.at(t)
+	}
+	return 0
+}
+
+// BankVoltage returns the bank (capacitor) voltage at time t (s), V: V0 before 0, VEnd after End.
 func (p PulseResult) BankVoltage(t float64) float64 {
+	if len(p.pieces) == 0 {
+		return 0
+	}
 	if t < 0 {
-		return p.seg.u0 + p.seg.drop
+		return p.pieces[0].v.at(0)
 	}
 	if t > p.End {
-		t = p.End
+		return p.VEnd
 	}
-	return p.seg.voltage(t)
+	return p.pieces[p.find(t)].v.at(t)
+}
+
+// Sample returns the waveform at n+1 evenly spaced times over [0, End] (n ≥ 1): times (s), coil current (A)
+// and bank voltage (V).
+func (p PulseResult) Sample(n int) (t, i, v []float64) {
+	if n < 1 {
+		n = 1
+	}
+	t, i, v = make([]float64, n+1), make([]float64, n+1), make([]float64, n+1)
+	for k := range t {
+		t[k] = p.End * float64(k) / float64(n)
+		i[k] = p.Current(t[k])
+		v[k] = p.BankVoltage(t[k])
+	}
+	return t, i, v
 }
 
 // finite reports whether every value is finite.
