@@ -2,4 +2,8 @@ module chargeward
 
 go 1.26.8
 
-require gonum.org/v1/gonum v0.17.0
+require (
+	github.com/santhosh-tekuri/jsonschema/v5 v5.3.1
+	gonum.org/v1/gonum v0.17.0
+	gopkg.in/yaml.v3 v3.0.1
+)

@@ -1,0 +1,399 @@
+package schema
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"reflect"
+	"strconv"
+	"strings"
+
+	"gopkg.in/yaml.v3"
+)
+
+// DecodeOptions adjust Decode for one file type. Paths are dotted field paths with "[]" standing for any
+// sequence index: "supply.transformers[].count".
+type DecodeOptions struct {
+	Required  []string // fields that must be present (and, for text, non-empty)
+	AllowZero []string // quantity and count fields where 0 is meaningful; everywhere else 0 is refused
+	// AllowNegative are fields that may be negative (by default no value may be).
+	AllowNegative []string
+	// Hooks parse a field's text before the default rules; a hook returns ok=false to fall through. The value
+	// is a float64 (SI units) for a quantity field and an int for a count field.
+	Hooks map[string]func(text string) (value any, ok bool)
+}
+
+// Decode fills target (a pointer to a struct) from a YAML mapping, driven by the struct tags: `yaml` names
+// the key, `unit` makes a *float64 field a quantity of that dimension (see ParseQuantity), `enum:"a|b"` lists
+// a string field's accepted values. Pointer fields stay nil when their key is absent. Every problem found is
+// reported: unknown keys (with a suggestion), wrong types, bad quantities, values out of range, missing
+// required fields. pos receives the position of every value, keyed by its dotted path (a section's entry
+// is the position of its key).
+func Decode(name string, root *yaml.Node, target any, opt DecodeOptions, pos map[string]Pos) Diagnostics {
+	d := decoder{name: name, opt: opt, pos: pos, required: set(opt.Required), zero: set(opt.AllowZero), neg: set(opt.AllowNegative)}
+	if pos == nil {
+		d.pos = map[string]Pos{}
+	}
+	rv := reflect.ValueOf(target)
+	if rv.Kind() != reflect.Pointer || rv.Elem().Kind() != reflect.Struct {
+		panic("schema.Decode: target must be a pointer to a struct") // a program error, not an input error
+	}
+	d.decodeStruct(root, nil, rv.Elem(), "", "")
+	return d.diags
+}
+
+type decoder struct {
+	name                string
+	opt                 DecodeOptions
+	pos                 map[string]Pos
+	diags               Diagnostics
+	required, zero, neg map[string]bool
+	aliasHops           int
+}
+
+func set(xs []string) map[string]bool {
+	m := make(map[string]bool, len(xs))
+	for _, x := range xs {
+		m[x] = true
+	}
+	return m
+}
+
+func (d *decoder) add(n *yaml.Node, code, path, summary, detail string) {
+	diag := Diagnostic{Severity: SeverityError, Code: code, Summary: summary, Detail: detail, File: d.name, Path: path}
+	if n != nil {
+		diag.Line, diag.Column = n.Line, n.Column
+	}
+	d.diags = append(d.diags, diag)
+}
+
+// resolve follows aliases to their target (the reader has already bounded their expansion).
+func resolve(n *yaml.Node) *yaml.Node {
+	for i := 0; n != nil && n.Kind == yaml.AliasNode && i < MaxDepth; i++ {
+		n = n.Alias
+	}
+	return n
+}
+
+func join(path, key string) string {
+	if path == "" {
+		return key
+	}
+	return path + "." + key
+}
+
+// fieldKeys returns the yaml keys of a struct type in declaration order.
+func fieldKeys(t reflect.Type) []string {
+	var keys []string
+	for i := 0; i < t.NumField(); i++ {
+		if k := yamlKey(t.Field(i)); k != "" {
+			keys = append(keys, k)
+		}
+	}
+	return keys
+}
+
+func yamlKey(f reflect.StructField) string {
+	k, _, _ := strings.Cut(f.Tag.Get("yaml"), ",")
+	if k == "-" || !f.IsExported() {
+		return ""
+	}
+	if k == "" {
+		return strings.ToLower(f.Name)
+	}
+	return k
+}
+
+func describeKind(n *yaml.Node) string {
+	switch n.Kind {
+	case yaml.MappingNode:
+		return "a mapping (section)"
+	case yaml.SequenceNode:
+		return "a list"
+	case yaml.ScalarNode:
+		switch n.Tag {
+		case "!!null":
+			return "an empty value"
+		case "!!bool":
+			return "true/false"
+		case "!!int", "!!float":
+			return "a number"
+		}
+		return fmt.Sprintf("the text %q", clip(n.Value))
+	}
+	return "an alias"
+}
+
+func clip(s string) string {
+	if r := []rune(s); len(r) > 40 {
+		return string(r[:40]) + "…"
+	}
+	return s
+}
+
+// decodeStruct fills sv from a mapping node. key is the node of the section's key (nil at the top).
+func (d *decoder) decodeStruct(n, key *yaml.Node, sv reflect.Value, path, pattern string) {
+	n = resolve(n)
+	where := n
+	if key != nil {
+		where = key
+	}
+	if n == nil || n.Kind != yaml.MappingNode {
+		what := "the file"
+		if path != "" {
+			what = fmt.Sprintf("%q", path)
+		}
+		got := "nothing"
+		if n != nil {
+			got = describeKind(n)
+			where = n
+		}
+		d.add(where, "FIELD-TYPE", path, fmt.Sprintf("%s must be a mapping of keys, got %s", what, got),
+			fmt.Sprintf("Write the keys of this section indented under it, one 'key: value' per line; known keys: %s.", strings.Join(fieldKeys(sv.Type()), ", ")))
+		return
+	}
+	t := sv.Type()
+	byKey := map[string]int{}
+	for i := 0; i < t.NumField(); i++ {
+		if k := yamlKey(t.Field(i)); k != "" {
+			byKey[k] = i
+		}
+	}
+	present := map[string]bool{}
+	for i := 0; i+1 < len(n.Content); i += 2 {
+		k, v := resolve(n.Content[i]), n.Content[i+1]
+		if k == nil || k.Kind != yaml.ScalarNode {
+			d.add(n.Content[i], "FIELD-TYPE", path, "a key must be plain text", "Write keys as plain words such as 'capacitance'.")
+			continue
+		}
+		if k.Tag == "!!merge" {
+			continue // already refused by the reader
+		}
+		idx, ok := byKey[k.Value]
+		if !ok {
+			d.unknownKey(k, t, path)
+			continue
+		}
+		if present[k.Value] {
+			continue // duplicate: already refused by the reader
+		}
+		present[k.Value] = true
+		f := t.Field(idx)
+		fp, fpat := join(path, k.Value), join(pattern, k.Value)
+		d.pos[fp] = Pos{k.Line, k.Column}
+		d.decodeField(v, k, sv.Field(idx), f, fp, fpat)
+	}
+	for i := 0; i < t.NumField(); i++ {
+		k := yamlKey(t.Field(i))
+		if k == "" || present[k] || !d.required[join(pattern, k)] {
+			continue
+		}
+		what := "key"
+		if ft := t.Field(i).Type; ft.Kind() == reflect.Struct || (ft.Kind() == reflect.Pointer && ft.Elem().Kind() == reflect.Struct) {
+			what = "section"
+		}
+		in := "the file"
+		if path != "" {
+			in = fmt.Sprintf("%q", path)
+		}
+		d.add(where, "FIELD-REQUIRED", join(path, k), fmt.Sprintf("required %s %q is missing from %s", what, k, in),
+			fmt.Sprintf("Add '%s:' to %s; run 'chargeward example' for a complete rig.", k, in))
+	}
+}
+
+func (d *decoder) unknownKey(k *yaml.Node, t reflect.Type, path string) {
+	keys := fieldKeys(t)
+	summary := fmt.Sprintf("unknown key %q", k.Value)
+	if path != "" {
+		summary += fmt.Sprintf(" in %q", path)
+	}
+	detail := ""
+	if m := Suggest(k.Value, keys); m != "" {
+		summary += fmt.Sprintf(" (did you mean %q?)", m)
+		detail = fmt.Sprintf("Rename it to %q. ", m)
+	}
+	detail += "Known keys here: " + strings.Join(keys, ", ") + "."
+	d.diags = append(d.diags, Diagnostic{Severity: SeverityError, Code: "FIELD-UNKNOWN", Summary: summary, Detail: detail,
+		File: d.name, Line: k.Line, Column: k.Column, Path: join(path, k.Value), Length: len([]rune(k.Value))})
+}
+
+// decodeField fills one field from its value node.
+func (d *decoder) decodeField(v, key *yaml.Node, fv reflect.Value, f reflect.StructField, path, pattern string) {
+	v = resolve(v)
+	if v == nil {
+		return
+	}
+	ft := f.Type
+	switch {
+	case ft.Kind() == reflect.Struct:
+		d.decodeStruct(v, key, fv, path, pattern)
+	case ft.Kind() == reflect.Pointer && ft.Elem().Kind() == reflect.Struct:
+		nv := reflect.New(ft.Elem())
+		d.decodeStruct(v, key, nv.Elem(), path, pattern)
+		fv.Set(nv)
+	case ft.Kind() == reflect.Slice && ft.Elem().Kind() == reflect.Struct:
+		if v.Kind != yaml.SequenceNode {
+			d.add(v, "FIELD-TYPE", path, fmt.Sprintf("%q must be a list, got %s", path, describeKind(v)),
+				"Write each entry on its own line starting with '- ', or '[]' for none.")
+			return
+		}
+		sl := reflect.MakeSlice(ft, len(v.Content), len(v.Content))
+		for i, el := range v.Content {
+			ep := fmt.Sprintf("%s[%d]", path, i)
+			if r := resolve(el); r != nil {
+				d.pos[ep] = Pos{r.Line, r.Column}
+			}
+			d.decodeStruct(el, nil, sl.Index(i), ep, pattern+"[]")
+		}
+		fv.Set(sl)
+	default:
+		d.decodeScalar(v, fv, f, path, pattern)
+	}
+	if r := resolve(v); r != nil && r.Kind == yaml.ScalarNode {
+		d.pos[path] = Pos{r.Line, r.Column}
+	}
+}
+
+func (d *decoder) decodeScalar(v *yaml.Node, fv reflect.Value, f reflect.StructField, path, pattern string) {
+	if v.Kind != yaml.ScalarNode {
+		d.add(v, "FIELD-TYPE", path, fmt.Sprintf("%q takes a single value, got %s", path, describeKind(v)), "Write the value on the same line as the key.")
+		return
+	}
+	if v.Tag == "!!null" {
+		d.add(v, "FIELD-TYPE", path, fmt.Sprintf("%q has no value", path),
+			"Give a value, or remove the key when it is not known (a missing value is reported as a finding, never assumed safe).")
+		return
+	}
+	if hook := d.opt.Hooks[pattern]; hook != nil {
+		if val, ok := hook(v.Value); ok {
+			target := fv
+			if fv.Kind() == reflect.Pointer {
+				target = reflect.New(fv.Type().Elem())
+				fv.Set(target)
+				target = target.Elem()
+			}
+			target.Set(reflect.ValueOf(val).Convert(target.Type()))
+			return
+		}
+	}
+	ft := f.Type
+	switch {
+	case ft.Kind() == reflect.String:
+		d.decodeString(v, fv, f, path, pattern)
+	case ft.Kind() == reflect.Pointer && ft.Elem().Kind() == reflect.Float64:
+		d.decodeQuantity(v, fv, f.Tag.Get("unit"), path, pattern)
+	case ft.Kind() == reflect.Pointer && ft.Elem().Kind() == reflect.Int:
+		d.decodeCount(v, fv, path, pattern)
+	case ft.Kind() == reflect.Pointer && ft.Elem().Kind() == reflect.Bool:
+		d.decodeBool(v, fv, path)
+	default:
+		panic(fmt.Sprintf("schema.Decode: field %s has unsupported type %s", f.Name, ft)) // program error
+	}
+}
+
+func (d *decoder) decodeString(v *yaml.Node, fv reflect.Value, f reflect.StructField, path, pattern string) {
+	s := v.Value
+	if v.Tag == "!!bool" {
+		d.add(v, "FIELD-TYPE", path, fmt.Sprintf("%q takes text, got %s", path, describeKind(v)), fmt.Sprintf("Quote the value if it is meant as text: \"%s\".", s))
+		return
+	}
+	if enum := f.Tag.Get("enum"); enum != "" {
+		opts := strings.Split(enum, "|")
+		for _, o := range opts {
+			if s == o {
+				fv.SetString(s)
+				return
+			}
+		}
+		summary := fmt.Sprintf("%q is not one of the values %q accepts", clip(s), path)
+		if m := Suggest(s, opts); m != "" {
+			summary += fmt.Sprintf(" (did you mean %q?)", m)
+		}
+		d.diags = append(d.diags, Diagnostic{Severity: SeverityError, Code: "FIELD-ENUM", Summary: summary,
+			Detail: "Accepted values: " + strings.Join(opts, ", ") + ".", File: d.name, Line: v.Line, Column: v.Column, Path: path})
+		return
+	}
+	if strings.TrimSpace(s) == "" && d.required[pattern] {
+		d.add(v, "FIELD-REQUIRED", path, fmt.Sprintf("%q must not be empty", path), "Write the text; a review needs it to identify the rig.")
+		return
+	}
+	fv.SetString(s)
+}
+
+// quantityColumn places a quantity error: the node column, plus the offset into the text (and the quote).
+func quantityColumn(v *yaml.Node, off int) int {
+	switch v.Style {
+	case yaml.DoubleQuotedStyle, yaml.SingleQuotedStyle:
+		return v.Column + 1 + off
+	case yaml.LiteralStyle, yaml.FoldedStyle:
+		return v.Column
+	}
+	return v.Column + off
+}
+
+func (d *decoder) decodeQuantity(v *yaml.Node, fv reflect.Value, unit, path, pattern string) {
+	if v.Tag == "!!bool" {
+		d.add(v, "FIELD-TYPE", path, fmt.Sprintf("%q takes %s, got %s", path, UnitName(unit), v.Value),
+			fmt.Sprintf("Write %s with its unit, e.g. %q.", UnitName(unit), UnitExample(unit)))
+		return
+	}
+	x, err := ParseQuantity(v.Value, unit)
+	if err != nil {
+		var qe *QuantityError
+		if !errors.As(err, &qe) {
+			qe = &QuantityError{Code: "UNIT-SYNTAX", Summary: err.Error()}
+		}
+		d.diags = append(d.diags, Diagnostic{Severity: SeverityError, Code: qe.Code, Summary: fmt.Sprintf("%s: %s", path, qe.Summary), Detail: qe.Detail,
+			File: d.name, Line: v.Line, Column: quantityColumn(v, qe.Offset), Path: path, Length: qe.Length})
+		return
+	}
+	if msg, ok := d.rangeOK(x, pattern); !ok {
+		d.add(v, "UNIT-RANGE", path, fmt.Sprintf("%s: %s %s", path, clip(strings.TrimSpace(v.Value)), msg),
+			"Check the value and its sign; remove the key if it is not known.")
+		return
+	}
+	fv.Set(reflect.ValueOf(&x))
+}
+
+func (d *decoder) rangeOK(x float64, pattern string) (string, bool) {
+	switch {
+	case math.IsNaN(x) || math.IsInf(x, 0):
+		return "is not finite", false
+	case x < 0 && !d.neg[pattern]:
+		return "is negative; this value cannot be", false
+	case x == 0 && !d.zero[pattern] && !d.neg[pattern]:
+		return "is zero; this value must be positive", false
+	}
+	return "", true
+}
+
+func (d *decoder) decodeCount(v *yaml.Node, fv reflect.Value, path, pattern string) {
+	n, err := strconv.Atoi(strings.TrimSpace(v.Value))
+	if err != nil || v.Tag == "!!bool" {
+		d.add(v, "FIELD-TYPE", path, fmt.Sprintf("%q takes a whole number, got %s", path, describeKind(v)), "Write a count such as 2, without a unit or decimal point.")
+		return
+	}
+	if msg, ok := d.rangeOK(float64(n), pattern); !ok {
+		d.add(v, "FIELD-RANGE", path, fmt.Sprintf("%s: %d %s", path, n, msg), "Write a count of at least 1; remove the key if it is not known.")
+		return
+	}
+	fv.Set(reflect.ValueOf(&n))
+}
+
+func (d *decoder) decodeBool(v *yaml.Node, fv reflect.Value, path string) {
+	if v.Tag == "!!bool" {
+		var b bool
+		if err := v.Decode(&b); err == nil {
+			fv.Set(reflect.ValueOf(&b))
+			return
+		}
+	}
+	detail := "Write true or false."
+	switch strings.ToLower(v.Value) {
+	case "yes", "y", "on":
+		detail = "Write true (YAML 1.2 reads 'yes' and 'on' as text)."
+	case "no", "n", "off":
+		detail = "Write false (YAML 1.2 reads 'no' and 'off' as text)."
+	}
+	d.add(v, "FIELD-TYPE", path, fmt.Sprintf("%q takes true or false, got %s", path, describeKind(v)), detail)
+}
