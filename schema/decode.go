@@ -117,7 +117,7 @@ func describeKind(n *yaml.Node) string {
 		case "!!bool":
 			return "true/false"
 		case "!!int", "!!float":
-			return "a number"
+			return "the number " + clip(n.Value)
 		}
 		return fmt.Sprintf("the text %q", clip(n.Value))
 	}
@@ -160,6 +160,7 @@ func (d *decoder) decodeStruct(n, key *yaml.Node, sv reflect.Value, path, patter
 		}
 	}
 	present := map[string]bool{}
+	suggested := map[string]bool{} // a misspelt key already names the field; do not also call it missing
 	for i := 0; i+1 < len(n.Content); i += 2 {
 		k, v := resolve(n.Content[i]), n.Content[i+1]
 		if k == nil || k.Kind != yaml.ScalarNode {
@@ -171,7 +172,7 @@ func (d *decoder) decodeStruct(n, key *yaml.Node, sv reflect.Value, path, patter
 		}
 		idx, ok := byKey[k.Value]
 		if !ok {
-			d.unknownKey(k, t, path)
+			suggested[d.unknownKey(k, t, path)] = true
 			continue
 		}
 		if present[k.Value] {
@@ -185,7 +186,7 @@ func (d *decoder) decodeStruct(n, key *yaml.Node, sv reflect.Value, path, patter
 	}
 	for i := 0; i < t.NumField(); i++ {
 		k := yamlKey(t.Field(i))
-		if k == "" || present[k] || !d.required[join(pattern, k)] {
+		if k == "" || present[k] || suggested[k] || !d.required[join(pattern, k)] {
 			continue
 		}
 		what := "key"
@@ -201,7 +202,8 @@ func (d *decoder) decodeStruct(n, key *yaml.Node, sv reflect.Value, path, patter
 	}
 }
 
-func (d *decoder) unknownKey(k *yaml.Node, t reflect.Type, path string) {
+// unknownKey reports a key the struct does not have and returns the suggested key ("" if none).
+func (d *decoder) unknownKey(k *yaml.Node, t reflect.Type, path string) string {
 	keys := fieldKeys(t)
 	summary := fmt.Sprintf("unknown key %q", k.Value)
 	if path != "" {
@@ -215,12 +217,18 @@ func (d *decoder) unknownKey(k *yaml.Node, t reflect.Type, path string) {
 	detail += "Known keys here: " + strings.Join(keys, ", ") + "."
 	d.diags = append(d.diags, Diagnostic{Severity: SeverityError, Code: "FIELD-UNKNOWN", Summary: summary, Detail: detail,
 		File: d.name, Line: k.Line, Column: k.Column, Path: join(path, k.Value), Length: len([]rune(k.Value))})
+	return Suggest(k.Value, keys)
 }
 
 // decodeField fills one field from its value node.
 func (d *decoder) decodeField(v, key *yaml.Node, fv reflect.Value, f reflect.StructField, path, pattern string) {
 	v = resolve(v)
 	if v == nil {
+		return
+	}
+	if v.Kind == yaml.ScalarNode && v.Tag == "!!null" && key != nil {
+		d.add(key, "FIELD-TYPE", path, fmt.Sprintf("%q has no value", path),
+			"Give a value, or remove the key when it is not known (a missing value is reported as a finding, never assumed safe).")
 		return
 	}
 	ft := f.Type
@@ -348,6 +356,9 @@ func (d *decoder) decodeQuantity(v *yaml.Node, fv reflect.Value, unit, path, pat
 		return
 	}
 	if msg, ok := d.rangeOK(x, pattern); !ok {
+		if unit == "K" && x < 0 {
+			msg = "is below absolute zero"
+		}
 		d.add(v, "UNIT-RANGE", path, fmt.Sprintf("%s: %s %s", path, clip(strings.TrimSpace(v.Value)), msg),
 			"Check the value and its sign; remove the key if it is not known.")
 		return

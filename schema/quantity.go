@@ -206,7 +206,9 @@ func ParseQuantity(s string, unit string) (float64, error) {
 	}
 	detail := fmt.Sprintf("Write %s with one of the units %s, e.g. %q.", dimensionNames[unit], strings.Join(spellings(unit), ", "), examples[unit])
 	summary := fmt.Sprintf("unknown unit %q", rest)
-	if m := Suggest(rest, allSpellings(unit)); m != "" {
+	if m := spelledOut(rest); m != "" {
+		summary += fmt.Sprintf(" (did you mean %q?)", m)
+	} else if m := Suggest(rest, allSpellings(unit)); m != "" {
 		summary += fmt.Sprintf(" (did you mean %q?)", m)
 	}
 	return 0, &QuantityError{Code: "UNIT-UNKNOWN", Offset: uOff, Summary: summary, Detail: detail}
@@ -339,6 +341,34 @@ func allSpellings(unit string) []string {
 		}
 	}
 	return out
+}
+
+// unitWords maps spelled-out unit names (lower case, singular) to their symbols, for suggestions.
+var unitWords = map[string]string{
+	"farad": "F", "volt": "V", "amp": "A", "ampere": "A", "amps": "A", "henry": "H", "henrie": "H", "second": "s",
+	"sec": "s", "metre": "m", "meter": "m", "gram": "g", "joule": "J", "watt": "W", "hertz": "Hz", "tesla": "T",
+	"kelvin": "K", "celsius": "°C", "percent": "%", "degree": "deg", "radian": "rad",
+}
+
+var prefixWords = map[string]string{"pico": "p", "nano": "n", "micro": "u", "milli": "m", "centi": "c", "kilo": "k", "mega": "M", "giga": "G"}
+
+// spelledOut turns "Watts" into "W" and "microfarads" into "uF", or returns "".
+func spelledOut(u string) string {
+	w := strings.ToLower(strings.TrimSpace(u))
+	prefix := ""
+	for word, p := range prefixWords {
+		if rest, ok := strings.CutPrefix(w, word); ok && rest != "" {
+			prefix, w = p, rest
+			break
+		}
+	}
+	if sym, ok := unitWords[w]; ok {
+		return prefix + sym
+	}
+	if sym, ok := unitWords[strings.TrimSuffix(w, "s")]; ok {
+		return prefix + sym
+	}
+	return ""
 }
 
 // findRefusedRune returns the rune offset of the first character a quantity may not contain.

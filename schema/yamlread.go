@@ -41,6 +41,11 @@ func ReadYAML(name string, data []byte) (root *yaml.Node, diags Diagnostics) {
 		return nil, Diagnostics{at(line, col, "YAML-ENCODING", "file is not valid UTF-8",
 			"Save the file as UTF-8 (the usual default); this byte cannot be read as text.")}
 	}
+	if off := firstControl(data); off >= 0 {
+		line, col := lineCol(data, off)
+		return nil, Diagnostics{at(line, col, "YAML-ENCODING", fmt.Sprintf("control character U+%04X in the file", data[off]),
+			"Remove it; only tab, line feed and carriage return may appear in a text file.")}
+	}
 	defer func() {
 		if r := recover(); r != nil { // the YAML library must never take the program down
 			root = nil
@@ -71,6 +76,9 @@ func ReadYAML(name string, data []byte) (root *yaml.Node, diags Diagnostics) {
 	w := walker{name: name, memo: map[*yaml.Node]int{}}
 	w.check(root, 1)
 	diags = append(diags, w.diags...)
+	if w.deep {
+		root = nil // too deep to walk safely
+	}
 	if expanded := w.expanded(root, 0); !w.deep && expanded > MaxAliasExpanded+w.plain {
 		diags = append(diags, at(root.Line, root.Column, "YAML-ALIAS", fmt.Sprintf("aliases expand to more than %d nodes", MaxAliasExpanded),
 			"Write the values out instead of repeating large anchored blocks with aliases (*name)."))
@@ -155,8 +163,11 @@ func (w *walker) expanded(n *yaml.Node, depth int) int {
 
 var yamlLineRE = regexp.MustCompile(`line (\d+)`)
 
-// syntaxDiag converts a yaml.v3 error (which names a line but no column) into a diagnostic placed on the
-// first non-blank character of that line.
+// syntaxDiag converts a yaml.v3 error into a diagnostic. yaml.v3 names a line but no column, and for
+// parser errors the line it names is where the enclosing structure began, not where it broke. So the
+// first line at which a prefix of the file stops parsing with the same message is searched for (by
+// bisection; prefixes cut at line ends), and the diagnostic is placed on that line's first non-blank
+// character — or on a tab in its indentation, the commonest cause.
 func syntaxDiag(name string, data []byte, err error) Diagnostic {
 	msg := strings.TrimPrefix(err.Error(), "yaml: ")
 	line := 1
@@ -166,17 +177,62 @@ func syntaxDiag(name string, data []byte, err error) Diagnostic {
 		}
 		msg = strings.TrimSpace(strings.Replace(msg, m[0]+":", "", 1))
 	}
+	if l := failingLine(data, msg); l > 0 {
+		line = l
+	}
 	col := 1
+	detail := "Check the indentation (spaces only, no tabs) and that each key is followed by ': ' and a value; quote values that contain ': ' or start with a special character."
 	if l, ok := sourceLine(data, line); ok {
-		col = 1 + utf8.RuneCountInString(l) - utf8.RuneCountInString(strings.TrimLeft(l, " \t"))
-		if strings.TrimSpace(l) == "" {
-			col = 1
+		indent := l[:len(l)-len(strings.TrimLeft(l, " \t"))]
+		if i := strings.IndexByte(indent, '\t'); i >= 0 {
+			col = i + 1
+			detail = "Indent with spaces: YAML does not allow tabs in indentation."
+		} else if strings.TrimSpace(l) != "" {
+			col = 1 + utf8.RuneCountInString(indent)
 		}
 	} else {
 		line = bytes.Count(data, []byte("\n")) + 1
 	}
-	detail := "Check the indentation (spaces only, no tabs) and that each key is followed by ': ' and a value; quote values that contain ': ' or start with a special character."
 	return Diagnostic{Severity: SeverityError, Code: "YAML-SYNTAX", Summary: "YAML syntax: " + msg, Detail: detail, File: name, Line: line, Column: col}
+}
+
+// failingLine returns the smallest k such that the first k lines of data fail to parse with an error whose
+// text (without its line number) is msg, or 0 if bisection finds none.
+func failingLine(data []byte, msg string) int {
+	ends := []int{}
+	for i, c := range data {
+		if c == '\n' {
+			ends = append(ends, i+1)
+		}
+	}
+	if len(ends) == 0 || ends[len(ends)-1] != len(data) {
+		ends = append(ends, len(data))
+	}
+	fails := func(k int) bool {
+		var n yaml.Node
+		err := yaml.Unmarshal(data[:ends[k-1]], &n)
+		if err == nil {
+			return false
+		}
+		m := strings.TrimPrefix(err.Error(), "yaml: ")
+		if lm := yamlLineRE.FindString(m); lm != "" {
+			m = strings.TrimSpace(strings.Replace(m, lm+":", "", 1))
+		}
+		return m == msg
+	}
+	lo, hi := 1, len(ends)
+	if !fails(hi) {
+		return 0
+	}
+	for lo < hi {
+		mid := (lo + hi) / 2
+		if fails(mid) {
+			hi = mid
+		} else {
+			lo = mid + 1
+		}
+	}
+	return lo
 }
 
 // secondDocLine finds the line of the document separator after the first document's start.
@@ -187,6 +243,17 @@ func secondDocLine(data []byte, after int) int {
 		}
 	}
 	return max(after, 1)
+}
+
+// firstControl returns the byte offset of the first C0 control character other than tab, LF and CR (or
+// DEL), or -1.
+func firstControl(data []byte) int {
+	for i, c := range data {
+		if (c < 0x20 && c != '\t' && c != '\n' && c != '\r') || c == 0x7f {
+			return i
+		}
+	}
+	return -1
 }
 
 func firstInvalidUTF8(data []byte) int {

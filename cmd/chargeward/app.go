@@ -2,9 +2,13 @@ package main
 
 import (
 	"errors"
+	"flag"
 	"fmt"
 	"io"
+	"os"
 	"strings"
+
+	"chargeward/schema"
 )
 
 // Exit codes shared by every command.
@@ -130,4 +134,91 @@ func editDistance(a, b string) int {
 		prev = cur
 	}
 	return prev[len(rb)]
+}
+
+// newFlags returns a command's flag set. Parse errors go to stderr; --help prints usage (the command's
+// text, then its flags) to stdout.
+func newFlags(name, usageText string, e *env) *flag.FlagSet {
+	fs := flag.NewFlagSet(name, flag.ContinueOnError)
+	fs.SetOutput(e.stderr)
+	fs.Usage = func() {
+		out := fs.Output()
+		fmt.Fprint(out, usageText)
+		n := 0
+		fs.VisitAll(func(*flag.Flag) { n++ })
+		if n > 0 {
+			fmt.Fprintln(out, "\nOptions:")
+			fs.PrintDefaults()
+		}
+	}
+	return fs
+}
+
+// parseFlags parses args. done is true when the command must stop: after --help (err nil, exit 0) or on a
+// bad flag (err is an exit-2 exitError; the message has been printed).
+func parseFlags(fs *flag.FlagSet, args []string, e *env) (done bool, err error) {
+	for _, a := range args {
+		if a == "--" {
+			break
+		}
+		if a == "-h" || a == "-help" || a == "--help" {
+			fs.SetOutput(e.stdout)
+			fs.Usage()
+			return true, nil
+		}
+	}
+	if err := fs.Parse(args); err != nil {
+		return true, exitError{exitBadInput}
+	}
+	return false, nil
+}
+
+// readInput reads a named input file, or standard input for "-", refusing more than schema.MaxFileSize
+// bytes before reading them all.
+func readInput(name string, e *env) ([]byte, error) {
+	var r io.Reader
+	if name == "-" {
+		r = e.stdin
+	} else {
+		f, err := os.Open(name)
+		if err != nil {
+			return nil, err
+		}
+		defer f.Close()
+		r = f
+	}
+	data, err := io.ReadAll(io.LimitReader(r, schema.MaxFileSize+1))
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", name, err)
+	}
+	return data, nil
+}
+
+// loadRig reads and loads one rig. On bad input it prints every diagnostic, with source excerpts, to
+// stderr and returns an exit-2 error.
+func loadRig(name string, e *env) (*schema.Rig, error) {
+	data, err := readInput(name, e)
+	if err != nil {
+		fmt.Fprintln(e.stderr, "chargeward:", err)
+		return nil, exitError{exitBadInput}
+	}
+	rig, err := schema.LoadRig(name, data)
+	if err != nil {
+		var ds schema.Diagnostics
+		if errors.As(err, &ds) {
+			ds.Render(e.stderr, map[string][]byte{name: data})
+			fmt.Fprintf(e.stderr, "%s: %s\n", name, plural(len(ds), "problem"))
+		} else {
+			fmt.Fprintln(e.stderr, "chargeward:", err)
+		}
+		return nil, exitError{exitBadInput}
+	}
+	return rig, nil
+}
+
+func plural(n int, word string) string {
+	if n == 1 {
+		return "1 " + word
+	}
+	return fmt.Sprintf("%d %ss", n, word)
 }
