@@ -38,6 +38,7 @@ func fixtureReview(t testing.TB, n int, name string) *rules.Review {
 		Rig: schema.Info{Name: name, Owner: "A. Tester", Location: "Room T1", Purpose: "layout test", Revision: "C"},
 		Bank: schema.Bank{Capacitance: f64(2200e-6), VoltageRating: f64(400), Series: intp(2), Parallel: intp(2),
 			Dielectric: "aluminium-electrolytic"},
+		Room:   &schema.Room{CeilingHeight: f64(2.7)},
 		Source: schema.Source{File: "demo.yaml", Raw: []byte(fixtureYAML)},
 	}
 	a := &hazards.Assessment{Rig: rig, Targets: hazards.DefaultTargets()}
