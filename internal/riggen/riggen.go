@@ -1,0 +1,150 @@
+// Package riggen generates random but valid rig descriptions for property tests. The rigs are YAML text, so
+// every property test also runs the loader. The ranges are wide on purpose (a few joules to tens of
+// kilojoules, film and electrolytic banks, every switch topology) and say nothing about real rigs: they
+// are test inputs, never expected values.
+package riggen
+
+import (
+	"fmt"
+	"math/rand"
+	"strings"
+)
+
+// Options select which optional sections a generated rig has.
+type Options struct {
+	// Launch includes a coil and a projectile (and so the launch simulation).
+	Launch bool
+}
+
+// Rig returns the YAML text of one random rig drawn from r.
+func Rig(r *rand.Rand, opt Options) string {
+	var b strings.Builder
+	w := func(format string, args ...any) { fmt.Fprintf(&b, format+"\n", args...) }
+	pick := func(xs ...string) string { return xs[r.Intn(len(xs))] }
+	between := func(lo, hi float64) float64 { return lo + r.Float64()*(hi-lo) }
+
+	w("rig:")
+	w("  name: Generated rig %d", r.Intn(1_000_000))
+	w("  revision: \"%d\"", 1+r.Intn(9))
+	w("  audience_distance: %.2f m", between(0.5, 8))
+
+	series := 1 + r.Intn(3)
+	rating := pick("63", "160", "250", "400", "450", "500", "800")
+	var ratingV float64
+	fmt.Sscan(rating, &ratingV)
+	chargeV := ratingV * float64(series) * between(0.5, 1.05)
+
+	w("supply:")
+	if r.Intn(2) == 0 {
+		w("  kind: dc-supply")
+		w("  dc_voltage: %.1f V", chargeV)
+		w("  current_limit: %.1f mA", between(1, 100))
+	} else {
+		w("  kind: mains-rectifier")
+		mains := pick("120", "230", "240")
+		w("  mains_voltage: %s V", mains)
+		w("  mains_frequency: %s Hz", pick("50", "60"))
+		w("  rectifier: %s", pick("half-wave", "bridge", "doubler"))
+		w("  regulated_voltage: %.1f V", chargeV)
+	}
+	w("  charging_resistor: %.0f Ω", between(100, 50_000))
+	w("  isolation: %s", pick("interlocked", "unplugged", "switched", "stays-connected"))
+
+	dielectric := pick("aluminium-electrolytic", "film-polypropylene", "film-polyester")
+	capUF := between(10, 5000)
+	if dielectric != "aluminium-electrolytic" {
+		capUF = between(1, 400)
+	}
+	w("bank:")
+	w("  capacitance: %.1f uF", capUF)
+	w("  capacitance_tolerance: %.0f %%", between(1, 20))
+	w("  voltage_rating: %s V", rating)
+	w("  dielectric: %s", dielectric)
+	w("  esr: %.1f mΩ", between(1, 200))
+	w("  peak_current_rating: %.0f A", between(50, 5000))
+	w("  series: %d", series)
+	w("  parallel: %d", 1+r.Intn(4))
+	if series > 1 && r.Intn(2) == 0 {
+		w("  balancing:")
+		w("    resistance: %.0f kΩ", between(10, 470))
+		w("    power_rating: %.1f W", between(0.25, 5))
+	}
+	if r.Intn(5) != 0 {
+		w("bleeder:")
+		w("  resistance: %.0f kΩ", between(1, 1000))
+		w("  count: %d", 1+r.Intn(2))
+		w("  elements_in_series: %d", 1+r.Intn(3))
+		w("  power_rating: %.1f W", between(0.25, 10))
+		w("  voltage_rating: %.0f V", between(200, 1500))
+	}
+	if r.Intn(3) == 0 {
+		w("dump:")
+		w("  resistance: %.1f Ω", between(1, 100))
+		w("  energy_rating: %.0f J", between(10, 2000))
+		w("  switching: %s", pick("normally-closed-relay", "manual", "on-command"))
+		w("  fail_safe: %v", r.Intn(2) == 0)
+	}
+	topology := pick("unidirectional", "antiparallel-diode", "crowbar")
+	w("switch:")
+	w("  kind: %s", pick("thyristor", "igbt", "spark-gap"))
+	w("  topology: %s", topology)
+	if topology == "crowbar" {
+		w("  crowbar_at: %s", pick("coil", "bank"))
+	}
+	w("  blocking_voltage: %.0f V", chargeV*between(0.8, 3))
+	w("  surge_current: %.1f kA", between(0.5, 10))
+	w("  i2t_rating: %.1f kA²s", between(1, 200))
+	w("  di_dt_critical: %.0f A/us", between(50, 500))
+	w("  forward_drop: %.1f V", between(0, 2))
+	if opt.Launch {
+		if r.Intn(2) == 0 {
+			inner := between(5, 20)
+			w("coil:")
+			w("  form: flat-spiral")
+			w("  turns: %d", 5+r.Intn(30))
+			w("  inner_diameter: %.1f mm", inner)
+			w("  outer_diameter: %.1f mm", inner+between(40, 120))
+			w("  wire_gauge: %d", 10+r.Intn(8))
+			w("  material: copper")
+			w("  insulation_class: %s", pick("A", "B", "F", "H"))
+		} else {
+			w("coil:")
+			w("  form: solenoid")
+			w("  turns: %d", 10+r.Intn(60))
+			w("  layers: %d", 1+r.Intn(3))
+			w("  inner_diameter: %.1f mm", between(20, 60))
+			w("  length: %.1f mm", between(20, 80))
+			w("  wire_gauge: %d", 12+r.Intn(8))
+			w("  material: copper")
+			w("  insulation_class: %s", pick("B", "F"))
+		}
+		w("wiring:")
+		w("  length: %.2f m", between(0.3, 3))
+		w("  cross_section: %.1f mm²", between(1.5, 16))
+		w("  separation: %.0f mm", between(5, 40))
+		w("projectile:")
+		kind := pick("disc", "ring")
+		w("  kind: %s", kind)
+		w("  material: %s", pick("aluminium-1100", "aluminium-6061", "copper"))
+		od := between(40, 130)
+		w("  outer_diameter: %.1f mm", od)
+		if kind == "ring" {
+			w("  inner_diameter: %.1f mm", od*between(0.5, 0.8))
+		}
+		w("  thickness: %.1f mm", between(1, 10))
+		w("  gap: %.1f mm", between(0.5, 5))
+	}
+	w("room:")
+	w("  ceiling_height: %.1f m", between(2.2, 8))
+	w("  launch_axis: vertical")
+	w("controls:")
+	w("  enclosure: %s", pick("none", "partial", "full"))
+	w("  interlock: %v", r.Intn(2) == 0)
+	w("  charged_indicator: %v", r.Intn(2) == 0)
+	w("  grounding_hook: %v", r.Intn(2) == 0)
+	w("  eye_protection: %s", pick("none", "spectacles", "goggles", "faceshield"))
+	w("  hearing_protection: %v", r.Intn(2) == 0)
+	w("  exclusion_zone: %.1f m", between(0.5, 6))
+	w("  discharge_method: %s", pick("wait-for-bleeder", "dump-resistor", "shorting-stick", "touch"))
+	return b.String()
+}
