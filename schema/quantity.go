@@ -166,8 +166,7 @@ func ParseQuantity(s string, unit string) (float64, error) {
 		return 0, &QuantityError{Code: "UNIT-SYNTAX", Summary: "empty value", Detail: fmt.Sprintf("Write %s with its unit, e.g. %q, or remove the key if it is not known.", dimensionNames[unit], examples[unit])}
 	}
 	lt := strings.ToLower(strings.TrimPrefix(strings.TrimPrefix(t, "+"), "-"))
-	switch strings.TrimPrefix(lt, ".") {
-	case "nan", "inf", "infinity":
+	if x := strings.TrimPrefix(lt, "."); strings.HasPrefix(x, "nan") || strings.HasPrefix(x, "inf") {
 		return 0, &QuantityError{Code: "UNIT-NONFINITE", Offset: off, Summary: fmt.Sprintf("%q is not a finite number", t), Detail: "Give a real measured or rated value; remove the key if it is not known (a missing value becomes a finding)."}
 	}
 	num := numberRE.FindString(t)
