@@ -50,7 +50,7 @@ func TestSuggest(t *testing.T) {
 		{"paralel", "parallel"},
 		{"colour", ""},
 		{"esx", "esr"}, // one edit is allowed even in a short word
-		{"eqr", ""},    // two edits in three letters is too far to be a plausible typo
+		{"qrx", ""},    // two or more edits in three letters is too far to be a plausible typo
 	}
 	for _, c := range cases {
 		t.Run(c.in, func(t *testing.T) {
