@@ -3,6 +3,8 @@ package hazards
 import (
 	"fmt"
 	"math"
+
+	"chargeward/hazards/em"
 )
 
 // Adiabatic conductor heating in the form of IEC 60949 (1988), "Calculation of thermally permissible
@@ -62,4 +64,57 @@ func ShotsToLimit(m Material, s, i2t, thetaI, thetaLimit float64) int {
 		return 1e9
 	}
 	return int(math.Floor(n))
+}
+
+// maxReportedRise bounds the reported temperature rise, K: beyond it the conductor has melted (copper at
+// 1085 °C, aluminium at 660 °C) and the adiabatic formula no longer describes it.
+const maxReportedRise = 2000
+
+// assessCoilHeating adds the coil's adiabatic temperature rise per shot, the shots to its insulation class
+// with no cooling between shots, and the skin-depth check of the DC-resistance assumption.
+func assessCoilHeating(a *Assessment, nom LoopModel, pn, pw PulseResult) error {
+	cm := a.m.coil
+	if cm == nil || !(cm.Section > 0) {
+		return nil
+	}
+	m := cm.Conductor
+	rise := func(i2t float64) (float64, string) {
+		tf, err := AdiabaticFinal(m, cm.Section, i2t, cm.Ambient)
+		if err != nil || tf-cm.Ambient > maxReportedRise {
+			return maxReportedRise, "the conductor would melt: the rise is capped at 2000 K, far beyond the formula's validity"
+		}
+		return tf - cm.Ambient, ""
+	}
+	rn, noteN := rise(pn.CoilI2t)
+	rw, noteW := rise(pw.CoilI2t)
+	k2, beta := iec60949K2(m)
+	in := []Input{{"I²t", "coil.i2t", pn.CoilI2t, "A²s"}, {"S", "πd²/4", cm.Section, "m²"}, {"K", "√(σ(β+20)/ρ20) of " + m.Name, math.Sqrt(k2) * 1e-6, "A·s½/mm²"},
+		{"β", "1/α20 − 20 °C", beta, "°C"}, {"θi", "coil.ambient_temperature", cm.Ambient, "K"}}
+	basis := "IEC 60949 (1988) clause 3, adiabatic heating: I²t = K²S² ln((θf + β)/(θi + β)); " + m.Basis
+	note := "adiabatic: no heat leaves the wire during the millisecond pulse; DC current distribution; worst case at the worst-case coil I²t"
+	if noteN+noteW != "" {
+		note = noteN + noteW
+	}
+	qs := []Quantity{
+		{Name: "coil.temperature_rise", Value: rn, Worst: Worst(rw), Unit: "K", Formula: "Δθ = (θi + β)[exp(I²t/(K²S²)) − 1]", Inputs: in, Basis: basis, Note: note},
+		{Name: "coil.final_temperature", Value: cm.Ambient + rn, Worst: Worst(cm.Ambient + rw), Unit: "K", Formula: "θf = θi + Δθ", Inputs: in, Basis: basis},
+	}
+	if cm.InsulationClass > 0 {
+		sn := ShotsToLimit(m, cm.Section, pn.CoilI2t, cm.Ambient, cm.InsulationClass)
+		sw := ShotsToLimit(m, cm.Section, pw.CoilI2t, cm.Ambient, cm.InsulationClass)
+		qs = append(qs, Quantity{Name: "coil.shots_to_class", Value: float64(sn), Worst: Worst(float64(sw)), Unit: "1",
+			Formula: "n = ⌊K²S² ln((θclass + β)/(θi + β)) / I²t⌋",
+			Inputs:  append(in, Input{"θclass", "coil.insulation_class", cm.InsulationClass, "K"}), Basis: basis,
+			Note: "if the coil does not cool at all between shots (the worst case for rapid firing) and each shot has the same I²t; real coils cool between shots, so this is a lower bound; −1: no current"})
+	}
+	// Skin depth at the pulse's ringing frequency f ≈ 1/(4 t_peak): δ = √(ρ/(π f μ0)).
+	if pn.TimeToPeak > 0 {
+		f := 1 / (4 * pn.TimeToPeak)
+		delta := math.Sqrt(m.Resistivity20 / (math.Pi * f * em.Mu0))
+		qs = append(qs, Quantity{Name: "coil.skin_depth_ratio", Value: cm.WireRadius / delta, Unit: "1", Formula: "r_wire / δ, δ = √(ρ20/(π f μ0)), f = 1/(4 t_peak)",
+			Inputs: []Input{{"r_wire", "coil.wire_diameter/2", cm.WireRadius, "m"}, {"f", "1/(4·pulse.time_to_peak)", f, "Hz"}, {"ρ20", m.Name, m.Resistivity20, "Ω·m"}},
+			Basis:  "skin depth of a good conductor (e.g. Cheng, Field and Wave Electromagnetics, 2nd ed., §8-3)",
+			Note:   "above about 1 the current crowds to the surface: the DC resistance understates the loss and the surface runs hotter than the adiabatic average"})
+	}
+	return addAll(a, qs...)
 }

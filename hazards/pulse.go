@@ -7,6 +7,8 @@ import (
 	"sort"
 
 	"gonum.org/v1/gonum/integrate/quad"
+
+	"chargeward/hazards/em"
 )
 
 // LoopModel is the series R-L-C discharge loop as later stages use it. Owner: pulse and coil (issue 4).
@@ -643,5 +645,240 @@ func finite(v ...float64) bool {
 	return true
 }
 
-// assessPulse computes the coil-only pulse (DESIGN.md §4.4). PLACEHOLDER until issue 4 lands.
-func assessPulse(a *Assessment) error { return nil }
+// TwoWireInductance returns the low-frequency inductance, H, of a two-wire line of round conductors of
+// radius r (m) whose centres are s apart (m), for a total conductor length ℓ (m, out and back, so the line is
+// ℓ/2 long):
+//
+//	L = (μ0/π)(ℓ/2)[acosh(s/2r) + ¼]
+//
+// the external inductance of parallel round wires (exact for s > 2r, proximity included: D. K. Cheng, Field
+// and Wave Electromagnetics, 2nd ed., 1989, §9-2, Table 9-1) plus the internal inductance μ0/8π of each
+// conductor at uniform current. End effects of a short line are neglected (they lower L). NaN unless
+// s > 2r > 0, ℓ > 0.
+func TwoWireInductance(length, r, s float64) float64 {
+	if !(r > 0 && s > 2*r && length > 0) {
+		return math.NaN()
+	}
+	return em.Mu0 / math.Pi * length / 2 * (math.Acosh(s/(2*r)) + 0.25)
+}
+
+// loopParts is the discharge loop as built from the rig, with the provenance of each part.
+type loopParts struct {
+	esr, wireR, wireL, swR, drop float64
+	topology, crowbarAt          string
+	quantities                   []Quantity
+}
+
+// buildLoop assembles the series loop from the bank model, wiring and switch, recording a gap for each
+// missing part. Missing resistances and inductances are taken as zero, which overstates the peak current
+// and the rate of rise (the stress quantities) — the gap says so.
+func buildLoop(a *Assessment) loopParts {
+	var lp loopParts
+	r := a.Rig
+	bm := a.m.bank
+	lp.esr = bm.ESR
+	lp.quantities = append(lp.quantities, Quantity{Name: "loop.bank_esr", Value: lp.esr, Unit: "Ω", Formula: "ESR = S·ESRcell/P (bank.esr)",
+		Inputs: []Input{{"ESR", "bank.esr", lp.esr, "Ω"}}, Basis: "series resistances add, parallel ones combine reciprocally",
+		Note: "0 when the cells' ESR is not stated"})
+
+	w := r.Wiring
+	if w == nil {
+		a.AddGap("wiring", "the wiring between bank, switch and coil is not described: its resistance and stray inductance are taken as zero, which overstates the peak current and di/dt")
+	} else {
+		switch {
+		case w.Resistance != nil:
+			lp.wireR = *w.Resistance
+			lp.quantities = append(lp.quantities, Quantity{Name: "loop.wiring_resistance", Value: lp.wireR, Unit: "Ω", Formula: "stated",
+				Inputs: []Input{{"R", "wiring.resistance", lp.wireR, "Ω"}}, Basis: "stated in the rig"})
+		case w.Length != nil && w.CrossSection != nil && *w.CrossSection > 0:
+			lp.wireR = Copper.Resistivity20 * *w.Length / *w.CrossSection
+			lp.quantities = append(lp.quantities, Quantity{Name: "loop.wiring_resistance", Value: lp.wireR, Unit: "Ω", Formula: "R = ρ20 ℓ / A (copper)",
+				Inputs: []Input{{"ρ20", "copper", Copper.Resistivity20, "Ω·m"}, {"ℓ", "wiring.length", *w.Length, "m"}, {"A", "wiring.cross_section", *w.CrossSection, "m²"}},
+				Basis:  Copper.Basis, Note: "DC resistance of the conductors; joints, lugs and terminals add to it"})
+		default:
+			a.AddGap("wiring.cross_section", "the wiring's length and cross-section (or its resistance) are not stated: its resistance is taken as zero, which overstates the peak current")
+		}
+		switch {
+		case w.StrayInductance != nil:
+			lp.wireL = *w.StrayInductance
+			lp.quantities = append(lp.quantities, Quantity{Name: "loop.wiring_inductance", Value: lp.wireL, Unit: "H", Formula: "stated",
+				Inputs: []Input{{"L", "wiring.stray_inductance", lp.wireL, "H"}}, Basis: "stated in the rig"})
+		case w.Length != nil && w.CrossSection != nil && w.Separation != nil:
+			rw := math.Sqrt(*w.CrossSection / math.Pi)
+			l := TwoWireInductance(*w.Length, rw, *w.Separation)
+			if math.IsNaN(l) {
+				a.AddGap("wiring.separation", "the wiring's separation is not larger than the conductor diameter: its stray inductance is taken as zero")
+				break
+			}
+			lp.wireL = l
+			lp.quantities = append(lp.quantities, Quantity{Name: "loop.wiring_inductance", Value: l, Unit: "H", Formula: "L = (μ0/π)(ℓ/2)[acosh(s/2r) + ¼], r = √(A/π)",
+				Inputs: []Input{{"ℓ", "wiring.length", *w.Length, "m"}, {"A", "wiring.cross_section", *w.CrossSection, "m²"}, {"s", "wiring.separation", *w.Separation, "m"}},
+				Basis:  "two-wire line inductance: D. K. Cheng, Field and Wave Electromagnetics, 2nd ed., 1989, Table 9-1, plus the internal inductance μ0/8π per conductor",
+				Note:   "go and return run parallel at the stated spacing; the bank's and switch's own inductance are not included"})
+		default:
+			a.AddGap("wiring.separation", "the wiring's stray inductance (or length, cross-section and separation) is not stated: it is taken as zero, which overstates the peak current and di/dt")
+		}
+	}
+
+	sw := r.Switch
+	lp.topology = Unidirectional
+	if sw == nil {
+		a.AddGap("switch", "the firing switch is not described: its ratings cannot be checked and a unidirectional switch (the most bank reversal) is assumed")
+		return lp
+	}
+	if sw.Topology != "" {
+		lp.topology = sw.Topology
+	} else {
+		a.AddGap("switch.topology", "the switch topology is not stated: unidirectional is assumed, which leaves the bank reversed")
+	}
+	lp.crowbarAt = sw.CrowbarAt
+	if lp.topology == Crowbar && lp.crowbarAt == "" {
+		lp.crowbarAt = "coil"
+	}
+	if sw.OnResist != nil {
+		lp.swR = *sw.OnResist
+		lp.quantities = append(lp.quantities, Quantity{Name: "loop.switch_resistance", Value: lp.swR, Unit: "Ω", Formula: "stated",
+			Inputs: []Input{{"r_T", "switch.on_resistance", lp.swR, "Ω"}}, Basis: "stated in the rig (slope resistance)"})
+	} else {
+		a.AddGap("switch.on_resistance", "the switch's on-state resistance is not stated: it is taken as zero, which overstates the peak current")
+	}
+	if sw.Drop != nil {
+		lp.drop = *sw.Drop
+		lp.quantities = append(lp.quantities, Quantity{Name: "loop.switch_drop", Value: lp.drop, Unit: "V", Formula: "stated",
+			Inputs: []Input{{"V_T0", "switch.forward_drop", lp.drop, "V"}}, Basis: "stated in the rig (threshold or arc voltage)"})
+	} else {
+		a.AddGap("switch.forward_drop", "the switch's forward drop is not stated: it is taken as zero, which overstates the peak current")
+	}
+	return lp
+}
+
+// loopModel returns the LoopModel of the parts with the bank at capacitance c (F) and voltage v (V).
+func (lp loopParts) loopModel(c, v float64, coil *CoilModel) LoopModel {
+	l := LoopModel{C: c, V0: v, R: lp.esr + lp.wireR + lp.swR, L: lp.wireL, Drop: lp.drop, Topology: lp.topology, CrowbarAt: lp.crowbarAt, BankR: lp.esr}
+	if coil != nil {
+		l.CoilL, l.CoilR = coil.L, coil.R20
+	}
+	return l
+}
+
+// assessPulse computes the coil-only pulse (DESIGN.md §4.4): the loop, the waveform at nominal and worst-case
+// bank values, the switch and cell stress against their ratings and the coil's heating.
+func assessPulse(a *Assessment) error {
+	bm := a.m.bank
+	if bm == nil || !(bm.C > 0 && bm.V > 0) {
+		return nil // the bank stage has recorded why
+	}
+	if a.Rig.Coil != nil && a.m.coil == nil {
+		return nil // the coil stage has recorded why
+	}
+	lp := buildLoop(a)
+	nom := lp.loopModel(bm.C, bm.V, a.m.coil)
+	cw, vw := math.Max(bm.CWorst, bm.C), math.Max(bm.VWorst, bm.V)
+	wst := lp.loopModel(cw, vw, a.m.coil)
+	lt, rt := nom.L+nom.CoilL, nom.R+nom.CoilR
+	lp.quantities = append(lp.quantities,
+		Quantity{Name: "loop.resistance", Value: rt, Unit: "Ω", Formula: "R = ESR + R_wiring + r_T + R_coil,20",
+			Inputs: []Input{{"ESR", "loop.bank_esr", lp.esr, "Ω"}, {"R_wiring", "loop.wiring_resistance", lp.wireR, "Ω"}, {"r_T", "loop.switch_resistance", lp.swR, "Ω"}, {"R_coil", "coil.resistance", nom.CoilR, "Ω"}},
+			Basis:  "series circuit (Kirchhoff's voltage law)", Note: "at 20 °C: the coldest conductors give the largest current"},
+		Quantity{Name: "loop.inductance", Value: lt, Unit: "H", Formula: "L = L_wiring + L_coil",
+			Inputs: []Input{{"L_wiring", "loop.wiring_inductance", nom.L, "H"}, {"L_coil", "coil.inductance", nom.CoilL, "H"}},
+			Basis:  "series circuit; the mutual inductance between the leads and the coil is neglected"},
+	)
+	if err := addAll(a, lp.quantities...); err != nil {
+		return err
+	}
+	if !(lt > 0) {
+		return pulseBounds(a, nom, wst)
+	}
+	loop := nom
+	a.m.loop = &loop
+	pn, err := RLCPulse(nom)
+	if err != nil {
+		return err
+	}
+	pw, err := RLCPulse(wst)
+	if err != nil {
+		return err
+	}
+	if err := addPulseQuantities(a, nom, wst, pn, pw); err != nil {
+		return err
+	}
+	n := 400
+	if pn.HalfCycles*20 > n {
+		n = min(pn.HalfCycles*20, 4000)
+	}
+	t, i, v := pn.Sample(n)
+	a.Curves = append(a.Curves,
+		Curve{Name: "pulse.current", XLabel: "time (s)", YLabel: "coil current (A)", XUnit: "s", YUnit: "A", X: t, Y: i},
+		Curve{Name: "pulse.bank_voltage", XLabel: "time (s)", YLabel: "bank voltage (V)", XUnit: "s", YUnit: "V", X: t, Y: v})
+	if err := assessStress(a, nom, wst, pn, pw); err != nil {
+		return err
+	}
+	return assessCoilHeating(a, nom, pn, pw)
+}
+
+// pulseBounds reports bounds on the pulse when the loop inductance is unknown (no coil and no stray
+// inductance): at the current peak di/dt = 0, so vC = R i + Vd and i_peak ≤ (V0 − Vd)/R; and the resistive
+// loss cannot exceed the stored energy, so I²t ≤ ½CV0²/R.
+func pulseBounds(a *Assessment, nom, wst LoopModel) error {
+	rt := nom.R + nom.CoilR
+	if !(rt > 0) {
+		a.AddGap("wiring.stray_inductance", "neither the loop's inductance nor its resistance is known: the pulse cannot be bounded")
+		return nil
+	}
+	a.AddGap("wiring.stray_inductance", "the loop inductance is unknown: the peak current and I²t are upper bounds and di/dt cannot be computed")
+	ipk, ipkW := (nom.V0-nom.Drop)/rt, (wst.V0-wst.Drop)/rt
+	i2t, i2tW := 0.5*nom.C*nom.V0*nom.V0/rt, 0.5*wst.C*wst.V0*wst.V0/rt
+	in := []Input{{"V0", "bank.voltage", nom.V0, "V"}, {"C", "bank.capacitance", nom.C, "F"}, {"R", "loop.resistance", rt, "Ω"}, {"Vd", "loop.switch_drop", nom.Drop, "V"}}
+	return addAll(a,
+		Quantity{Name: "pulse.peak_current", Value: ipk, Worst: Worst(ipkW), Unit: "A", Formula: "i_peak ≤ (V0 − Vd)/R (upper bound, any loop inductance)",
+			Inputs: in, Basis: "series R-L-C circuit: at the peak L di/dt = 0", Note: "upper bound: the loop inductance is unknown; worst case at +C tolerance and high line"},
+		Quantity{Name: "pulse.i2t", Value: i2t, Worst: Worst(i2tW), Unit: "A²s", Formula: "I²t ≤ ½CV0²/R (all stored energy into R)",
+			Inputs: in, Basis: "conservation of energy", Note: "upper bound: the loop inductance is unknown"},
+	)
+}
+
+// pulseBasis is the basis of the closed-form pulse quantities.
+const pulseBasis = "series R-L-C transient in closed form (e.g. Nilsson & Riedel, Electric Circuits, ch. 8), piecewise by switch topology"
+
+// loopInputs lists the loop values a pulse quantity depends on.
+func loopInputs(l LoopModel) []Input {
+	return []Input{{"C", "bank.capacitance", l.C, "F"}, {"V0", "bank.voltage", l.V0, "V"}, {"R", "loop.resistance", l.R + l.CoilR, "Ω"},
+		{"L", "loop.inductance", l.L + l.CoilL, "H"}, {"Vd", "loop.switch_drop", l.Drop, "V"}}
+}
+
+// addPulseQuantities adds the pulse quantities: nominal from pn (loop nom), worst case from pw (loop wst,
+// +C tolerance and high-line voltage).
+func addPulseQuantities(a *Assessment, nom, wst LoopModel, pn, pw PulseResult) error {
+	in := loopInputs(nom)
+	corner := fmt.Sprintf("worst case at +C tolerance and high line (C = %.4g F, V0 = %.4g V); %s, ζ = %.3g; %s switch", wst.C, wst.V0, pn.Regime, pn.Zeta, nom.Topology)
+	if nom.Topology == Crowbar {
+		corner += " at the " + nom.CrowbarAt
+	}
+	qs := []Quantity{
+		{Name: "pulse.damping_ratio", Value: pn.Zeta, Worst: Worst(pw.Zeta), Unit: "1", Formula: "ζ = (R/2)√(C/L)", Inputs: in, Basis: pulseBasis,
+			Note: "ζ < 1 underdamped (the bank reverses), ζ = 1 critically damped, ζ > 1 overdamped"},
+		{Name: "pulse.peak_current", Value: pn.PeakCurrent, Worst: Worst(pw.PeakCurrent), Unit: "A",
+			Formula: "i(t) = (V0 − Vd)/L · e^{−αt} sin(ωd t)/ωd at tan(ωd t) = ωd/α (sinh/cosh forms when overdamped)", Inputs: in, Basis: pulseBasis, Note: corner},
+		{Name: "pulse.time_to_peak", Value: pn.TimeToPeak, Worst: Worst(pw.TimeToPeak), Unit: "s", Formula: "t_peak = atan2(ωd, α)/ωd", Inputs: in, Basis: pulseBasis},
+		{Name: "pulse.di_dt_max", Value: pn.DiDtMax, Worst: Worst(pw.DiDtMax), Unit: "A/s", Formula: "di/dt at turn-on = (V0 − Vd)/L", Inputs: in, Basis: pulseBasis,
+			Note: "the largest rate of rise is at turn-on, when the whole bank voltage is across the loop inductance"},
+		{Name: "pulse.i2t", Value: pn.SwitchI2t, Worst: Worst(pw.SwitchI2t), Unit: "A²s", Formula: "∫ i_switch² dt over the pulse (Gauss–Legendre on the closed form)", Inputs: in, Basis: pulseBasis,
+			Note: "through the firing switch in its forward direction; " + corner},
+		{Name: "coil.i2t", Value: pn.CoilI2t, Worst: Worst(pw.CoilI2t), Unit: "A²s", Formula: "∫ i_coil² dt over the pulse", Inputs: in, Basis: pulseBasis,
+			Note: "includes the current that a crowbar or antiparallel diode keeps in the coil"},
+		{Name: "pulse.reversal", Value: pn.Reversal, Worst: Worst(pw.Reversal), Unit: "1", Formula: "−min vC / V0",
+			Inputs: in, Basis: pulseBasis, Note: "the largest reversed bank voltage as a fraction of the charge voltage; a unidirectional switch leaves the bank at it"},
+		{Name: "pulse.final_bank_voltage", Value: pn.VEnd, Worst: Worst(pw.VEnd), Unit: "V", Formula: "vC at the end of conduction", Inputs: in, Basis: pulseBasis,
+			Note: "negative: the bank is left reversed — it still holds charge and energy after the shot"},
+		{Name: "pulse.width", Value: pn.Width, Worst: Worst(pw.Width), Unit: "s", Formula: "full width of the coil current at half its peak", Inputs: in, Basis: pulseBasis},
+		{Name: "pulse.duration", Value: pn.FirstZero, Worst: Worst(pw.FirstZero), Unit: "s", Formula: "time to the first current zero (or to 1e-4 of the peak when the current decays without one)", Inputs: in, Basis: pulseBasis},
+		{Name: "pulse.coil_energy", Value: pn.CoilHeat, Worst: Worst(pw.CoilHeat), Unit: "J", Formula: "R_coil,20 · ∫ i_coil² dt", Inputs: in, Basis: "Joule heating",
+			Note: "at 20 °C resistance; the heating quantities use the temperature-dependent form"},
+	}
+	if nom.Topology == AntiparallelDiode || nom.Topology == Crowbar {
+		qs = append(qs, Quantity{Name: "pulse.diode_i2t", Value: pn.DiodeI2t, Worst: Worst(pw.DiodeI2t), Unit: "A²s", Formula: "∫ i_diode² dt", Inputs: in, Basis: pulseBasis,
+			Note: "through the antiparallel or crowbar diode, to compare with the diode's I²t rating"})
+	}
+	return addAll(a, qs...)
+}
