@@ -111,7 +111,18 @@ type piece struct {
 	// rBank is the resistance outside the coil that carries the bank current in this piece, Ω; rSw the one
 	// that carries the switch current where it differs from the bank current (crowbar at the bank), Ω.
 	rBank, rSw float64
+	// diode says how the diode current follows from the others where it is not a wave of its own.
+	diode diodeRule
 }
+
+// diodeRule derives a clamp diode's current.
+type diodeRule int
+
+const (
+	diodeWave        diodeRule = iota // the diod wave (antiparallel diode, or none)
+	diodeCoilMinusSw                  // crowbar at the coil: the diode carries i_coil − i_bank
+	diodeSwMinusBank                  // crowbar at the bank: the diode carries i_loop − i_bank
+)
 
 // rlcSegment is one interval of a series R-L-C loop carrying current in one direction. With u = vC − Vd the
 // loop obeys d²u/dt² + 2α du/dt + ω0² u = 0 and i = −C du/dt. S(τ) and Cs(τ) are the unified pair of the
@@ -412,11 +423,10 @@ func (p *PulseResult) crowbarCoil(l LoopModel, first rlcSegment, zero float64, h
 	}
 	split := math.Min(coilEnd, bankEnd)
 	if split > tc {
-		p.pieces = append(p.pieces, piece{t0: tc, t1: split, coil: coil, sw: bankI, bank: bankI, v: bankV, rBank: l.R,
-			diod: wave{}}) // the diode current ic_coil − i_bank is reported through DiodeI2t below
+		p.pieces = append(p.pieces, piece{t0: tc, t1: split, coil: coil, sw: bankI, bank: bankI, v: bankV, rBank: l.R, diode: diodeCoilMinusSw})
 	}
 	if coilEnd > split {
-		p.pieces = append(p.pieces, piece{t0: split, t1: coilEnd, coil: coil, v: wave{kind: wConst, constV: vEnd}})
+		p.pieces = append(p.pieces, piece{t0: split, t1: coilEnd, coil: coil, v: wave{kind: wConst, constV: vEnd}, diode: diodeCoilMinusSw})
 	} else if bankEnd > split {
 		p.pieces = append(p.pieces, piece{t0: split, t1: bankEnd, sw: bankI, bank: bankI, v: bankV, rBank: l.R})
 	}
@@ -484,7 +494,7 @@ func (p *PulseResult) crowbarBank(l LoopModel, first rlcSegment, zero float64, h
 	} else {
 		bankV = wave{kind: wConst, constV: math.Max(vc, 0)}
 	}
-	p.pieces = append(p.pieces, piece{t0: tc, t1: end, coil: loopI, sw: loopI, bank: bankI, v: bankV, rBank: l.BankR, rSw: rFree})
+	p.pieces = append(p.pieces, piece{t0: tc, t1: end, coil: loopI, sw: loopI, bank: bankI, v: bankV, rBank: l.BankR, rSw: rFree, diode: diodeSwMinusBank})
 	p.FirstZero = end
 	return nil
 }
@@ -511,8 +521,11 @@ func (pc *piece) gl16(a, b float64) integrals {
 		t := a + h*(x+1)
 		w := glW[j] * h
 		ic, is, id, ib := pc.coil.at(t), pc.sw.at(t), pc.diod.at(t), pc.bank.at(t)
-		if pc.coil.kind == wExp && pc.sw.kind != wExp {
-			id = ic - is // crowbar at the coil: the diode carries the difference
+		switch pc.diode {
+		case diodeCoilMinusSw:
+			id = ic - is
+		case diodeSwMinusBank:
+			id = is - ib
 		}
 		s.coil += w * ic * ic
 		s.sw += w * is * is
@@ -796,10 +809,21 @@ func assessPulse(a *Assessment) error {
 	if err != nil {
 		return err
 	}
-	pw, err := RLCPulse(wst)
-	if err != nil {
-		return err
+	// The worst case is the envelope over the tolerance corners: C at −tol, nominal and +tol, V at nominal
+	// and high line. +C and high line give the largest current and I²t; −C the least damping and the
+	// largest reversal.
+	cMin := bm.C * (1 - math.Min(math.Max(bm.Tolerance, 0), 0.99))
+	var corners []PulseResult
+	for _, c := range []float64{cMin, bm.C, cw} {
+		for _, v := range []float64{bm.V, vw} {
+			p, err := RLCPulse(lp.loopModel(c, v, a.m.coil))
+			if err != nil {
+				return err
+			}
+			corners = append(corners, p)
+		}
 	}
+	pw := envelope(corners)
 	if err := addPulseQuantities(a, nom, wst, pn, pw); err != nil {
 		return err
 	}
@@ -838,6 +862,32 @@ func pulseBounds(a *Assessment, nom, wst LoopModel) error {
 	)
 }
 
+// envelope returns the worst of the corner pulses field by field: the largest currents, integrals, times
+// and reversal, the most negative final bank voltage and the smallest damping ratio. It has no waveform.
+func envelope(ps []PulseResult) PulseResult {
+	e := ps[0]
+	e.pieces = nil
+	for _, p := range ps[1:] {
+		e.Zeta = math.Min(e.Zeta, p.Zeta)
+		e.PeakCurrent = math.Max(e.PeakCurrent, p.PeakCurrent)
+		e.TimeToPeak = math.Max(e.TimeToPeak, p.TimeToPeak)
+		e.DiDtMax = math.Max(e.DiDtMax, p.DiDtMax)
+		e.FirstZero = math.Max(e.FirstZero, p.FirstZero)
+		e.End = math.Max(e.End, p.End)
+		e.Width = math.Max(e.Width, p.Width)
+		e.VEnd = math.Min(e.VEnd, p.VEnd)
+		e.Reversal = math.Max(e.Reversal, p.Reversal)
+		e.SwitchI2t = math.Max(e.SwitchI2t, p.SwitchI2t)
+		e.DiodeI2t = math.Max(e.DiodeI2t, p.DiodeI2t)
+		e.CoilI2t = math.Max(e.CoilI2t, p.CoilI2t)
+		e.BankI2t = math.Max(e.BankI2t, p.BankI2t)
+		e.SwitchCharge = math.Max(e.SwitchCharge, p.SwitchCharge)
+		e.CoilHeat = math.Max(e.CoilHeat, p.CoilHeat)
+		e.LoopHeat = math.Max(e.LoopHeat, p.LoopHeat)
+	}
+	return e
+}
+
 // pulseBasis is the basis of the closed-form pulse quantities.
 const pulseBasis = "series R-L-C transient in closed form (e.g. Nilsson & Riedel, Electric Circuits, ch. 8), piecewise by switch topology"
 
@@ -851,13 +901,13 @@ func loopInputs(l LoopModel) []Input {
 // +C tolerance and high-line voltage).
 func addPulseQuantities(a *Assessment, nom, wst LoopModel, pn, pw PulseResult) error {
 	in := loopInputs(nom)
-	corner := fmt.Sprintf("worst case at +C tolerance and high line (C = %.4g F, V0 = %.4g V); %s, ζ = %.3g; %s switch", wst.C, wst.V0, pn.Regime, pn.Zeta, nom.Topology)
+	corner := fmt.Sprintf("worst case: the worst over C ∈ {−tol, nominal, +tol (%.4g F)} × V0 ∈ {nominal, high line (%.4g V)}; %s, ζ = %.3g; %s switch", wst.C, wst.V0, pn.Regime, pn.Zeta, nom.Topology)
 	if nom.Topology == Crowbar {
 		corner += " at the " + nom.CrowbarAt
 	}
 	qs := []Quantity{
 		{Name: "pulse.damping_ratio", Value: pn.Zeta, Worst: Worst(pw.Zeta), Unit: "1", Formula: "ζ = (R/2)√(C/L)", Inputs: in, Basis: pulseBasis,
-			Note: "ζ < 1 underdamped (the bank reverses), ζ = 1 critically damped, ζ > 1 overdamped"},
+			Note: "ζ < 1 underdamped (the bank reverses), ζ = 1 critically damped, ζ > 1 overdamped; worst case: the least damped corner (−C)"},
 		{Name: "pulse.peak_current", Value: pn.PeakCurrent, Worst: Worst(pw.PeakCurrent), Unit: "A",
 			Formula: "i(t) = (V0 − Vd)/L · e^{−αt} sin(ωd t)/ωd at tan(ωd t) = ωd/α (sinh/cosh forms when overdamped)", Inputs: in, Basis: pulseBasis, Note: corner},
 		{Name: "pulse.time_to_peak", Value: pn.TimeToPeak, Worst: Worst(pw.TimeToPeak), Unit: "s", Formula: "t_peak = atan2(ωd, α)/ωd", Inputs: in, Basis: pulseBasis},
