@@ -47,8 +47,8 @@ func demoInput(nr, nz int) launchInput {
 	return launchInput{
 		coil: c, loop: demoLoop(c), esr: 0.0225, mat: Aluminium6061,
 		outerR: ro, thick: th, gap: 1.5e-3,
-		mass:   Aluminium6061.Density * math.Pi * ro * ro * th,
-		nr:     nr, nz: nz, ambient: 293.15,
+		mass: Aluminium6061.Density * math.Pi * ro * ro * th,
+		nr:   nr, nz: nz, ambient: 293.15,
 	}
 }
 

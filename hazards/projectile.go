@@ -135,7 +135,7 @@ func ringInductance(rings []annulus) ([]float64, *mat.Cholesky, error) {
 // interpolant of the exact values and derivatives (Maxwell's formula and its analytic derivative), and
 // dM/dh is that interpolant's derivative, so that the force and the motional EMF come from one function and
 // the simulation conserves energy exactly in the limit of small steps. The interpolation error of a cubic
-// Hermite is h⁴ max|M''''|/384 per interval; with Δu = 0.1 it is below 1e-6 relative (TestMutualTable).
+// Hermite is h⁴ max|M””|/384 per interval; with Δu = 0.1 it is below 1e-6 relative (TestMutualTable).
 type mutualTable struct {
 	coil  []Filament
 	rings []annulus
