@@ -2,10 +2,13 @@ package hazards
 
 import (
 	"fmt"
+	"io/fs"
+	"strings"
 	"testing"
 
 	"gonum.org/v1/gonum/floats/scalar"
 
+	"chargeward"
 	"chargeward/schema"
 )
 
@@ -239,5 +242,41 @@ func elRingJumper() *schema.Rig {
 		Bleeder:      &schema.Bleeder{Resistance: elF(22e3), ElementsInSeries: elI(2), Count: elI(1), PowerRating: elF(5), VoltageRating: elF(350), Tolerance: elF(0.05)},
 		Dump:         &schema.Dump{Resistance: elF(10), EnergyRating: elF(150), PowerRating: elF(50), Switching: "normally-closed-relay", FailSafe: elB(true)},
 		Measurements: &schema.Measurements{ChargeVoltage: elF(396), DecayTime: elF(14e-3), DecayTo: elF(50)},
+	}
+}
+
+// TestDemoRigsLoaded assesses the shipped demo rigs as the loader reads them, and checks that the Go copies used
+// by the other tests hold the same electrical figures (every quantity of the supply, bank and discharge stages
+// equal). The demo rigs are invented inputs, so nothing here is an expected physical value.
+func TestDemoRigsLoaded(t *testing.T) {
+	for file, mk := range map[string]func() *schema.Rig{"disc-thrower": elDiscThrower, "flash-bank": elFlashBank, "ring-jumper": elRingJumper} {
+		t.Run(file, func(t *testing.T) {
+			data, err := fs.ReadFile(chargeward.Demos, "testdata/rigs/"+file+".yaml")
+			if err != nil {
+				t.Fatal(err)
+			}
+			r, err := schema.LoadRig(file+".yaml", data)
+			if err != nil {
+				t.Fatalf("LoadRig: %v", err)
+			}
+			loaded, mine := elAssess(t, r), elAssess(t, mk())
+			for _, q := range mine.Quantities {
+				if !strings.HasPrefix(q.Name, "supply.") && !strings.HasPrefix(q.Name, "bank.") && !strings.HasPrefix(q.Name, "discharge.") &&
+					!strings.HasPrefix(q.Name, "bleeder.") && !strings.HasPrefix(q.Name, "dump.") {
+					continue
+				}
+				got := elQ(t, loaded, q.Name)
+				if !scalar.EqualWithinRel(got.Value, q.Value, 1e-12) {
+					t.Errorf("%s: loaded rig %g, Go copy %g", q.Name, got.Value, q.Value)
+				}
+				if got.Basis == "" || got.Formula == "" || got.Unit == "" {
+					t.Errorf("%s: got basis %q, formula %q, unit %q; want all stated", q.Name, got.Basis, got.Formula, got.Unit)
+				}
+			}
+			for _, name := range []string{"supply.peak_voltage", "bank.capacitance", "bank.voltage", "bank.voltage_rating", "bank.energy", "bank.charge",
+				"bank.cell_voltage_max", "discharge.time_constant", "discharge.time_to_safe", "discharge.time_to_safe_single_fault", "bleeder.power"} {
+				elQ(t, loaded, name) // DESIGN.md §9: these exist whenever the rig has the part
+			}
+		})
 	}
 }
