@@ -29,7 +29,13 @@ type launchSetup struct {
 	rc        float64 // resistance of the coil circuit at 20 °C: coil + ESR + wiring + switch, Ω
 	rcClamped float64 // the same once a crowbar has clamped the bank (bank ESR out of the path), Ω
 	drop      float64 // switch forward drop, V
-	topology  string  // "unidirectional", "antiparallel-diode" or "crowbar"
+	topology  string  // Unidirectional, AntiparallelDiode or Crowbar
+	crowbarAt string  // "coil" or "bank"
+	coilL     float64 // coil alone, H
+	coilR     float64 // coil alone at 20 °C, Ω
+	lLoop     float64 // loop outside the coil, H
+	rLoop     float64 // loop outside the coil (ESR, wiring, switch), Ω
+	bankR     float64 // bank ESR, Ω
 
 	mass    float64 // moving mass, projectile plus payload, kg
 	ambient float64 // starting temperature of the projectile, K
@@ -46,19 +52,17 @@ type launchSetup struct {
 
 // launchInput collects the plain values a launch setup is built from.
 type launchInput struct {
-	coil      *CoilModel
-	loop      LoopModel
-	esr       float64 // bank ESR inside loop.R, Ω (taken out of the path by a crowbar at the bank)
-	mat       Material
-	outerR    float64 // projectile outer radius, m
-	innerR    float64 // projectile inner radius (ring bore), m; 0 for a disc
-	thick     float64 // projectile thickness, m
-	gap       float64 // coil face to projectile underside at rest, m
-	mass      float64 // projectile mass, kg
-	payload   float64 // payload mass, kg
-	nr, nz    int     // filaments radially and through the thickness
-	ambient   float64 // K
-	crowbarAt string
+	coil    *CoilModel
+	loop    LoopModel
+	mat     Material
+	outerR  float64 // projectile outer radius, m
+	innerR  float64 // projectile inner radius (ring bore), m; 0 for a disc
+	thick   float64 // projectile thickness, m
+	gap     float64 // coil face to projectile underside at rest, m
+	mass    float64 // projectile mass, kg
+	payload float64 // payload mass, kg
+	nr, nz  int     // filaments radially and through the thickness
+	ambient float64 // K
 }
 
 // newLaunchSetup builds the fixed parts of the model and checks that the whole inductance matrix (coil and
@@ -105,12 +109,24 @@ func newLaunchSetup(in launchInput) (*launchSetup, error) {
 		lf: lf, lfi: inv.RawMatrix().Data,
 		tab: newMutualTable(in.coil.Filaments, rings, in.gap),
 	}
-	s.rcClamped = s.rc
-	if s.topology == "crowbar" && in.crowbarAt != "coil" {
-		s.rcClamped = math.Max(s.rc-in.esr, 0)
-	}
+	s.coilL, s.coilR, s.lLoop, s.rLoop, s.bankR = lp.CoilL, lp.CoilR, lp.L, lp.R, lp.BankR
+	s.rcClamped = s.rc - lp.BankR
 	if s.topology == "" {
-		s.topology = "unidirectional"
+		s.topology = Unidirectional
+	}
+	s.crowbarAt = lp.CrowbarAt
+	if s.crowbarAt == "" {
+		s.crowbarAt = "coil"
+	}
+	switch {
+	case s.topology != Unidirectional && s.topology != AntiparallelDiode && s.topology != Crowbar:
+		return nil, fmt.Errorf("%w: switch topology %q", ErrLoop, s.topology)
+	case s.topology == Crowbar && s.crowbarAt != "coil" && s.crowbarAt != "bank":
+		return nil, fmt.Errorf("%w: crowbar position %q (want coil or bank)", ErrLoop, s.crowbarAt)
+	case s.topology == Crowbar && s.crowbarAt == "coil" && !(lp.CoilL > 0):
+		return nil, fmt.Errorf("%w: a crowbar across the coil needs the coil inductance", ErrLoop)
+	case !(lp.BankR >= 0 && lp.BankR <= lp.R):
+		return nil, fmt.Errorf("%w: bank ESR %g Ω outside the loop resistance %g Ω", ErrLoop, lp.BankR, lp.R)
 	}
 	for k, r := range rings {
 		area := r.W * r.T
@@ -133,6 +149,14 @@ func newLaunchSetup(in launchInput) (*launchSetup, error) {
 	if !chf.Factorize(full) {
 		return nil, fmt.Errorf("%w: the coil inductance %.4g H is too small for its coupling to the projectile "+
 			"(inductance matrix not positive definite); check the measured coil inductance", ErrGeometry, s.lc)
+	}
+	if s.topology == Crowbar && s.crowbarAt == "coil" {
+		// Once the crowbar diode clamps the coil, the coil circuit is the coil alone.
+		full.SetSym(0, 0, s.coilL)
+		if !chf.Factorize(full) {
+			return nil, fmt.Errorf("%w: the coil inductance %.4g H is too small for its coupling to the projectile "+
+				"(inductance matrix not positive definite); check the measured coil inductance", ErrGeometry, s.coilL)
+		}
 	}
 
 	// Slowest time constants: the coil circuit's L/R or its R-L-C envelope, and the projectile's slowest
@@ -168,7 +192,7 @@ type launchRun struct {
 	PeakForce   float64 // N, largest repulsive force on the projectile
 	PeakCurrent float64 // A, largest |coil current| with the projectile present
 	TimeToPeak  float64 // s
-	SwitchOff   float64 // s, when a unidirectional switch opened or a crowbar clamped; −1 if neither
+	SwitchOff   float64 // s, when the switch opened or a crowbar began to conduct; −1 if neither
 	MaxRise     float64 // K, largest filament temperature rise
 	MeanRise    float64 // K, heat-capacity-weighted mean temperature rise of the modelled filaments
 
@@ -177,25 +201,50 @@ type launchRun struct {
 
 	Steps, Evals int
 
-	// Sampled waveforms (only when recorded).
+	// Sampled waveforms (only when recorded): time, coil current, bank voltage, height.
 	T, I, V, H []float64
 }
+
+// circuitMode is the state of the switch and crowbar.
+type circuitMode int
+
+const (
+	modeLoop      circuitMode = iota // the bank drives the coil through the whole loop
+	modeOpen                         // the switch has opened (or the crowbar diode blocked): coil current zero
+	modeClampBank                    // a crowbar diode across the bank conducts: coil loop without the bank
+	modeClampCoil                    // a crowbar diode across the coil conducts; the bank loop finishes on its own
+)
 
 // simulator is one run's mutable state over a setup.
 type simulator struct {
 	s         *launchSetup
-	c         float64
-	open      bool // unidirectional switch has opened (coil current zero from then on)
-	clamped   bool // crowbar has clamped the bank at zero
-	resting   bool // projectile rests on its support
+	c         float64 // bank capacitance, F
+	mode      circuitMode
+	bankShort bool // the bank discharges through its own ESR into a crowbar diode
+	bankOpen  bool // with the coil clamped, the bank loop's switch has opened
+	resting   bool // the projectile rests on its support
 	m, d      []float64
 	x, yf, rf []float64
+	dy        []float64 // scratch derivative for event functions
 }
 
-// Layout of the state vector: V_C, i_c, i_k (n), h, v, T_k (n), E_loop.
-func (sm *simulator) idx() (iF, iH, iV, iT, iE int) {
+// State vector: V_C, i_c, i_k (n), h, v, T_k (n), E_loop, i_b (bank-loop current while the coil is clamped).
+func (sm *simulator) idx() (iF, iH, iV, iT, iE, iB int) {
 	n := sm.s.n
-	return 2, 2 + n, 3 + n, 4 + n, 4 + 2*n
+	return 2, 2 + n, 3 + n, 4 + n, 4 + 2*n, 5 + 2*n
+}
+
+// coilCircuit returns the inductance and resistance of the circuit the coil current flows in now, and
+// whether the bank drives it.
+func (sm *simulator) coilCircuit() (l, r float64, driven bool) {
+	s := sm.s
+	switch sm.mode {
+	case modeClampBank:
+		return s.lc, s.rcClamped, false
+	case modeClampCoil:
+		return s.coilL, s.coilR, false
+	}
+	return s.lc, s.rc, true
 }
 
 // rhs is the coupled-circuit model. With flux linkages ψ = L(h) i, the circuit equations are
@@ -204,13 +253,14 @@ func (sm *simulator) idx() (iF, iH, iV, iT, iE int) {
 //	L di/dt = e − v (∂L/∂h) i,   C dv_C/dt = −i_c,   F = i_c Σ_k i_k ∂M_k/∂h,
 //	m dv/dt = F − m g (in flight),   C_k dT_k/dt = i_k² R_k(T_k),   dE_loop/dt = R_c i_c² + V_d |i_c|
 //
-// (lumped coupled circuits, e.g. Haus & Melcher, Electromagnetic Fields and Energy, 1989, ch. 11, for the
-// force as the derivative of the co-energy ½ iᵀ L i). L's coil row is eliminated by its Schur complement
-// s = L_c − mᵀ L_f⁻¹ m, with L_f⁻¹ precomputed, so a call costs two n × n products.
+// (lumped coupled circuits; the force is the derivative of the co-energy ½ iᵀ L i at constant currents,
+// e.g. H. A. Haus and J. R. Melcher, Electromagnetic Fields and Energy, Prentice Hall 1989, §11.3). L's
+// coil row is eliminated by its Schur complement s = L_c − mᵀ L_f⁻¹ m, with L_f⁻¹ precomputed, so one call
+// costs two n × n products. Crowbar phases change the coil circuit as the closed-form pulse does (RLCPulse).
 func (sm *simulator) rhs(_ float64, y, dy []float64) {
 	s := sm.s
 	n := s.n
-	iF, iH, iV, iT, iE := sm.idx()
+	iF, iH, iV, iT, iE, iB := sm.idx()
 	vc, ic := y[0], y[1]
 	h, v := y[iH], y[iV]
 	s.tab.at(h, sm.m, sm.d)
@@ -226,18 +276,27 @@ func (sm *simulator) rhs(_ float64, y, dy []float64) {
 		dy[iT+k] = ik * ik * rk / s.heat[k]
 	}
 	matVec(s.lfi, sm.rf, sm.yf, n)
-	if sm.open {
-		dy[0], dy[1] = 0, 0
+	dy[0], dy[iE], dy[iB] = 0, 0, 0
+	if sm.mode == modeOpen {
+		dy[1] = 0
 		for k := 0; k < n; k++ {
 			dy[iF+k] = sm.yf[k]
 		}
-		dy[iE] = 0
 	} else {
-		rc := s.rc
-		if sm.clamped {
-			rc = s.rcClamped
+		lc, rc, driven := sm.coilCircuit()
+		var ec float64
+		switch {
+		case driven:
+			ec = vc - rc*ic - s.drop*sign(ic)
+			dy[0] = -ic / sm.c
+			dy[iE] = rc*ic*ic + s.drop*math.Abs(ic)
+		case sm.mode == modeClampBank:
+			ec = -rc*ic - s.drop*sign(ic)
+			dy[iE] = rc*ic*ic + s.drop*math.Abs(ic)
+		default: // clamped coil: ideal diode
+			ec = -rc * ic
+			dy[iE] = rc * ic * ic
 		}
-		ec := vc - rc*ic - s.drop*sign(ic)
 		rcoil := ec - v*flux
 		matVec(s.lfi, sm.m, sm.x, n)
 		var mx, my float64
@@ -245,18 +304,28 @@ func (sm *simulator) rhs(_ float64, y, dy []float64) {
 			mx += sm.m[k] * sm.x[k]
 			my += sm.m[k] * sm.yf[k]
 		}
-		schur := s.lc - mx
-		ac := (rcoil - my) / schur
+		ac := (rcoil - my) / (lc - mx)
 		dy[1] = ac
 		for k := 0; k < n; k++ {
 			dy[iF+k] = sm.yf[k] - sm.x[k]*ac
 		}
-		if sm.clamped {
-			dy[0] = 0
+	}
+	if sm.bankShort && s.bankR > 0 {
+		dy[0] = -vc / (s.bankR * sm.c)
+		dy[iE] += vc * vc / s.bankR
+	}
+	if sm.mode == modeClampCoil && !sm.bankOpen {
+		// Bank loop on its own: C, stray L, R, drop (RLCPulse's crowbar-at-coil bank loop).
+		ib := y[iB]
+		if s.lLoop > 0 {
+			dy[iB] = (vc - s.rLoop*ib - s.drop) / s.lLoop
+		} else if s.rLoop > 0 {
+			ib = math.Max(0, (vc-s.drop)/s.rLoop) // no stray inductance: R-C decay towards the drop
 		} else {
-			dy[0] = -ic / sm.c
+			ib = 0
 		}
-		dy[iE] = rc*ic*ic + s.drop*math.Abs(ic)
+		dy[0] = -ib / sm.c
+		dy[iE] += s.rLoop*ib*ib + s.drop*ib
 	}
 	if sm.resting {
 		dy[iH], dy[iV] = 0, 0
@@ -268,7 +337,7 @@ func (sm *simulator) rhs(_ float64, y, dy []float64) {
 
 // force returns the repulsive force on the projectile, N, in state y.
 func (sm *simulator) force(y []float64) float64 {
-	iF, iH, _, _, _ := sm.idx()
+	iF, iH, _, _, _, _ := sm.idx()
 	sm.s.tab.at(y[iH], sm.m, sm.d)
 	var flux float64
 	for k := 0; k < sm.s.n; k++ {
@@ -277,14 +346,19 @@ func (sm *simulator) force(y []float64) float64 {
 	return y[1] * flux
 }
 
-// fieldEnergy returns ½ iᵀ L i, J, in state y.
+// fieldEnergy returns the magnetic energy ½ iᵀ L i (with the bank loop's stray energy while the coil is
+// clamped), J, in state y.
 func (sm *simulator) fieldEnergy(y []float64) float64 {
 	s := sm.s
 	n := s.n
-	iF, iH, _, _, _ := sm.idx()
+	iF, iH, _, _, _, iB := sm.idx()
 	s.tab.at(y[iH], sm.m, sm.d)
+	lc, _, _ := sm.coilCircuit()
 	ic := y[1]
-	w := 0.5 * s.lc * ic * ic
+	w := 0.5 * lc * ic * ic
+	if sm.mode == modeClampCoil {
+		w += 0.5 * s.lLoop * y[iB] * y[iB]
+	}
 	for k := 0; k < n; k++ {
 		ik := y[iF+k]
 		w += ic * sm.m[k] * ik
@@ -298,17 +372,23 @@ func (sm *simulator) fieldEnergy(y []float64) float64 {
 	return w
 }
 
+// coilDiDt returns di_c/dt in state y.
+func (sm *simulator) coilDiDt(t float64, y []float64) float64 {
+	sm.rhs(t, y, sm.dy)
+	return sm.dy[1]
+}
+
 // launchOptions bound one run.
 type launchOptions struct {
 	record   bool      // keep the sampled waveforms
-	deadline time.Time // wall-clock limit
-	maxSteps int       // integrator steps allowed over the whole run
-	relTol   float64
+	deadline time.Time // wall-clock limit; zero: none
+	maxSteps int       // integrator steps allowed over the whole run; default 200000
+	relTol   float64   // default 1e-7
 }
 
 // doneFraction: the run ends once the energy still able to act on the projectile (field energy, and for a
-// ringing loop the bank's) is below this fraction of the stored energy; the push that remains is then at
-// most this fraction of the stored energy, well under 1e-4 of the kinetic energy of any rig that flies.
+// ringing loop the bank's) is below this fraction of the stored energy; what remains could add at most
+// that much energy to the projectile.
 const doneFraction = 1e-7
 
 // run simulates one shot from bank capacitance c (F) and voltage v0 (V).
@@ -321,10 +401,10 @@ func (s *launchSetup) run(c, v0 float64, o launchOptions) (launchRun, error) {
 		return r, fmt.Errorf("%w: switch drop %g V is not below the bank voltage %g V", ErrLoop, s.drop, v0)
 	}
 	n := s.n
-	sm := &simulator{s: s, c: c, resting: true,
-		m: make([]float64, n), d: make([]float64, n), x: make([]float64, n), yf: make([]float64, n), rf: make([]float64, n)}
-	dim := 5 + 2*n
-	iF, iH, iV, iT, iE := sm.idx()
+	dim := 6 + 2*n
+	sm := &simulator{s: s, c: c, resting: true, m: make([]float64, n), d: make([]float64, n),
+		x: make([]float64, n), yf: make([]float64, n), rf: make([]float64, n), dy: make([]float64, dim)}
+	iF, iH, iV, iT, iE, iB := sm.idx()
 	y := make([]float64, dim)
 	y[0] = v0
 	for k := 0; k < n; k++ {
@@ -332,18 +412,17 @@ func (s *launchSetup) run(c, v0 float64, o launchOptions) (launchRun, error) {
 	}
 	r.Stored = 0.5 * c * v0 * v0
 
-	// Absolute tolerances by component scale: voltage, currents (the undamped peak V0/√(L/C) bounds the
-	// coil current), position, speed, temperature, energy.
+	// Absolute tolerances by component scale: the undamped peak V0/√(L/C) bounds every current.
 	iScale := v0 / math.Sqrt(s.lc/c)
 	atol := make([]float64, dim)
 	atol[0] = 1e-7 * v0
-	atol[1] = 1e-7 * iScale
+	atol[1], atol[iB] = 1e-7*iScale, 1e-7*iScale
 	for k := 0; k < n; k++ {
 		atol[iF+k] = 1e-7 * iScale
-		atol[iT+k] = 1e-7
+		atol[iT+k] = 1e-7 // K
 	}
-	atol[iH] = 1e-9
-	atol[iV] = 1e-7
+	atol[iH] = 1e-9 // m
+	atol[iV] = 1e-7 // m/s
 	atol[iE] = 1e-7 * r.Stored
 
 	tMax := 60 * s.tauMax
@@ -356,46 +435,55 @@ func (s *launchSetup) run(c, v0 float64, o launchOptions) (launchRun, error) {
 		relTol = 1e-7
 	}
 	solver := ode.NewSolver(dim)
-	var first float64
 	weight := s.mass * gravity
-
 	record := func(t float64, y []float64) {
-		if !o.record {
-			return
+		if o.record {
+			r.T = append(r.T, t)
+			r.I = append(r.I, y[1])
+			r.V = append(r.V, y[0])
+			r.H = append(r.H, y[iH])
 		}
-		r.T = append(r.T, t)
-		r.I = append(r.I, y[1])
-		r.V = append(r.V, y[0])
-		r.H = append(r.H, y[iH])
 	}
 	record(0, y)
 	observe := func(t float64, y []float64) bool {
 		record(t, y)
-		if a := math.Abs(y[1]); a > r.PeakCurrent {
-			r.PeakCurrent, r.TimeToPeak = a, t
-		}
 		if f := sm.force(y); f > r.PeakForce {
 			r.PeakForce = f
 		}
 		rest := sm.fieldEnergy(y)
-		if s.topology == "antiparallel-diode" && !sm.open {
+		switch {
+		case sm.mode == modeLoop && s.topology == AntiparallelDiode:
 			rest += 0.5 * c * y[0] * y[0]
+		case sm.mode == modeLoop:
+			return false // the switch is still closed
 		}
-		coilOff := sm.open || s.topology != "unidirectional"
-		return coilOff && rest < doneFraction*r.Stored
+		return rest < doneFraction*r.Stored
+	}
+	// The largest |i_c| is where i_c di_c/dt falls through zero.
+	peak := ode.Event{
+		G:   func(t float64, y []float64) float64 { return y[1] * sm.coilDiDt(t, y) },
+		Dir: -1,
+		OnCross: func(t float64, y []float64) {
+			if a := math.Abs(y[1]); a > r.PeakCurrent {
+				r.PeakCurrent, r.TimeToPeak = a, t
+			}
+		},
 	}
 
-	t := 0.0
+	const (
+		evPeak = iota
+		evTakeOff
+		evLanding
+		evCoilZero // coil current falls to zero: the switch (or a crowbar diode) stops conducting
+		evClamp    // a crowbar diode starts to conduct
+		evBankZero // with the coil clamped, the bank loop's current falls to zero
+	)
+	t, first := 0.0, 0.0
 	landings := 0
-	for {
-		// Events of this phase, with what each one means.
-		const (
-			evTakeOff = iota
-			evLanding
-			evSwitch
-		)
-		var evs []ode.Event
-		var kinds []int
+	evs := make([]ode.Event, 0, 5)
+	kinds := make([]int, 0, 5)
+	for t < tMax {
+		evs, kinds = append(evs[:0], peak), append(kinds[:0], evPeak)
 		if sm.resting {
 			evs = append(evs, ode.Event{G: func(_ float64, y []float64) float64 { return sm.force(y) - weight }, Dir: +1})
 			kinds = append(kinds, evTakeOff)
@@ -403,13 +491,24 @@ func (s *launchSetup) run(c, v0 float64, o launchOptions) (launchRun, error) {
 			evs = append(evs, ode.Event{G: func(_ float64, y []float64) float64 { return y[iH] }, Dir: -1})
 			kinds = append(kinds, evLanding)
 		}
-		switch {
-		case s.topology == "unidirectional" && !sm.open:
+		if sm.mode != modeOpen && (sm.mode != modeLoop || s.topology != AntiparallelDiode) {
 			evs = append(evs, ode.Event{G: func(_ float64, y []float64) float64 { return y[1] }, Dir: -1})
-			kinds = append(kinds, evSwitch)
-		case s.topology == "crowbar" && !sm.clamped:
-			evs = append(evs, ode.Event{G: func(_ float64, y []float64) float64 { return y[0] }, Dir: -1})
-			kinds = append(kinds, evSwitch)
+			kinds = append(kinds, evCoilZero)
+		}
+		if sm.mode == modeLoop && s.topology == Crowbar {
+			if s.crowbarAt == "bank" {
+				evs = append(evs, ode.Event{G: func(_ float64, y []float64) float64 { return y[0] - s.bankR*y[1] }, Dir: -1})
+			} else {
+				// Coil terminal voltage v_C − R i − V_d − L_stray di/dt.
+				evs = append(evs, ode.Event{G: func(t float64, y []float64) float64 {
+					return y[0] - s.rLoop*y[1] - s.drop - s.lLoop*sm.coilDiDt(t, y)
+				}, Dir: -1})
+			}
+			kinds = append(kinds, evClamp)
+		}
+		if sm.mode == modeClampCoil && !sm.bankOpen && s.lLoop > 0 {
+			evs = append(evs, ode.Event{G: func(_ float64, y []float64) float64 { return y[iB] }, Dir: -1})
+			kinds = append(kinds, evBankZero)
 		}
 		res, err := solver.Integrate(sm.rhs, t, tMax, y, evs, ode.Options{
 			RelTol: relTol, AbsTol: atol, InitialStep: first, MaxSteps: maxSteps - r.Steps,
@@ -420,10 +519,9 @@ func (s *launchSetup) run(c, v0 float64, o launchOptions) (launchRun, error) {
 		if err != nil {
 			return r, fmt.Errorf("%w: %w", ErrSimulation, err)
 		}
-		t = res.T
-		first = res.LastStep
+		t, first = res.T, res.LastStep
 		if res.Event < 0 {
-			break // done (observer) or reached tMax
+			break // finished (observer) or reached tMax
 		}
 		record(t, y)
 		switch kinds[res.Event] {
@@ -435,34 +533,38 @@ func (s *launchSetup) run(c, v0 float64, o launchOptions) (launchRun, error) {
 		case evLanding:
 			landings++
 			if landings > 1000 {
-				return r, fmt.Errorf("%w: the projectile bounced on the coil more than 1000 times", ErrSimulation)
+				return r, fmt.Errorf("%w: the projectile fell back onto the coil more than 1000 times", ErrSimulation)
 			}
 			r.Impact += 0.5 * s.mass * y[iV] * y[iV]
 			y[iH], y[iV] = 0, 0
-			if sm.force(y) <= weight {
-				sm.resting = true
-			}
-		case evSwitch:
-			if s.topology == "unidirectional" {
-				sm.open = true
-				y[1] = 0
-			} else {
-				sm.clamped = true
-				r.Bank += 0.5 * c * y[0] * y[0] // energy left at the clamp (≈ 0) is not part of the loop any more
-				y[0] = 0
-			}
+			sm.resting = sm.force(y) <= weight
+		case evCoilZero:
+			sm.mode = modeOpen
+			y[1] = 0
 			if r.SwitchOff < 0 {
 				r.SwitchOff = t
 			}
-		}
-		if t >= tMax {
-			break
+		case evClamp:
+			if r.SwitchOff < 0 {
+				r.SwitchOff = t
+			}
+			if s.crowbarAt == "bank" {
+				sm.mode = modeClampBank
+				sm.bankShort = true
+			} else {
+				// The stray inductance's current continues in the bank loop; the coil keeps its own.
+				sm.mode = modeClampCoil
+				y[iB] = y[1]
+			}
+		case evBankZero:
+			sm.bankOpen = true
+			y[iB] = 0
 		}
 	}
 	r.TEnd = t
 	r.Speed = y[iV]
 	r.Rise = y[iH]
-	r.Bank += 0.5 * c * y[0] * y[0]
+	r.Bank = 0.5 * c * y[0] * y[0]
 	r.LoopLoss = y[iE]
 	var hc float64
 	for k := 0; k < n; k++ {
@@ -476,7 +578,9 @@ func (s *launchSetup) run(c, v0 float64, o launchOptions) (launchRun, error) {
 	r.Kinetic = 0.5 * s.mass * y[iV] * y[iV]
 	r.Potential = s.mass * gravity * y[iH]
 	r.Field = sm.fieldEnergy(y)
-	_ = iF
+	if !finite(r.Speed, r.Rise, r.Bank, r.LoopLoss, r.RingLoss, r.Field, r.PeakCurrent, r.PeakForce, r.MaxRise) {
+		return r, fmt.Errorf("%w: %w", ErrSimulation, ErrNonFinite)
+	}
 	return r, nil
 }
 

@@ -57,44 +57,83 @@ func discretise(ro, ri, thick float64, nr, nz int) ([]annulus, error) {
 // maxRings bounds the number of projectile filaments (the model's cost grows with its square).
 const maxRings = 256
 
-// gauss4 holds the 4-point Gauss–Legendre nodes and weights on [−½, ½] (Abramowitz & Stegun, Table 25.4).
-var gauss4 = [4][2]float64{
-	{-0.4305681557970263, 0.1739274225687269},
-	{-0.1699905217924281, 0.3260725774312731},
-	{0.1699905217924281, 0.3260725774312731},
-	{0.4305681557970263, 0.1739274225687269},
+// nearFactor: pairs of filaments whose centres are closer than nearFactor × the larger section side get
+// the geometric-mean-distance correction of their mutual inductance; beyond it the correction is below
+// about 1e-4 of the logarithm and the centre-filament formula stands alone.
+const nearFactor = 10
+
+// rectLogPhi is a fourth antiderivative of ln(X² + Y²): ∂²/∂X² ∂²/∂Y² Φ = ln(X² + Y²), with
+//
+//	Φ = (X²Y²/4 − X⁴/24 − Y⁴/24) ln(X² + Y²) + (X³Y/3) atan(Y/X) + (XY³/3) atan(X/Y) − 25X²Y²/24
+//
+// (the function behind Maxwell's GMD of a rectangle, Treatise §692; verified symbolically when written,
+// and in TestRectGMD against Maxwell's square and strip values). Φ(0, ·) and Φ(·, 0) take their limits.
+func rectLogPhi(x, y float64) float64 {
+	x, y = math.Abs(x), math.Abs(y)
+	x2, y2 := x*x, y*y
+	var v float64
+	if r2 := x2 + y2; r2 > 0 {
+		v = (x2*y2/4 - x2*x2/24 - y2*y2/24) * math.Log(r2)
+	}
+	if x > 0 && y > 0 {
+		v += x*x2*y/3*math.Atan(y/x) + x*y*y2/3*math.Atan(x/y)
+	}
+	return v - 25*x2*y2/24
 }
 
-// nearFactor: filaments whose centres are closer than nearFactor × the larger section side are
-// "neighbours" and their mutual is averaged over both sections; farther ones use Maxwell's formula at
-// the centres, whose error is of order (side/distance)²/24 ≤ 0.7 % there and falls quickly beyond.
-const nearFactor = 2.5
-
-// sectionMutual returns the mutual inductance, H, of two coaxial rectangular-section rings carrying uniform
-// current density: Maxwell's coaxial-circle formula averaged over both sections by a 4 × 4 Gauss–Legendre
-// rule in each. This is the mean over the sections that the geometric-mean-distance method of Maxwell
-// (Treatise §691–693) approximates by one logarithm; averaging the full formula instead keeps the curvature
-// terms. The integrand has only a logarithmic singularity on a shared edge, which the rule integrates to
-// about 0.1 % (see TestSectionMutual).
-func sectionMutual(p, q annulus) float64 {
+// sectionLogGMD returns ln g, g the geometric mean distance (m) between the rectangular sections of p and q
+// in the meridian (r, z) plane: ln g = (1/(A_p A_q)) ∫∫ ln|P − Q| dA_P dA_Q, in closed form as the signed
+// sum of Φ/2 over the 16 corner differences (Maxwell, Treatise §691–692; Grover, Inductance Calculations,
+// 1946, ch. 2). Exact for the plane sections; p = q gives the section's own GMD.
+func sectionLogGMD(p, q annulus) float64 {
+	xs := [2]float64{p.R - p.W/2, p.R + p.W/2}
+	us := [2]float64{q.R - q.W/2, q.R + q.W/2}
+	ys := [2]float64{p.Z - p.T/2, p.Z + p.T/2}
+	vs := [2]float64{q.Z - q.T/2, q.Z + q.T/2}
+	// ∫∫ f(u − x) du dx over [x1,x2]×[u1,u2] = F(u2−x1) − F(u2−x2) − F(u1−x1) + F(u1−x2) for F'' = f:
+	// the sign is + where the indices differ, in each of the two directions.
 	var sum float64
-	for _, a := range gauss4 {
-		for _, b := range gauss4 {
-			r1, z1, w1 := p.R+a[0]*p.W, p.Z+b[0]*p.T, a[1]*b[1]
-			for _, c := range gauss4 {
-				for _, d := range gauss4 {
-					r2, z2 := q.R+c[0]*q.W, q.Z+d[0]*q.T
-					sum += w1 * c[1] * d[1] * em.Mutual(r1, r2, z1-z2)
+	for i, u := range us {
+		for j, x := range xs {
+			sx := -1.0
+			if i != j {
+				sx = 1
+			}
+			for k, v := range vs {
+				for l, y := range ys {
+					sy := -1.0
+					if k != l {
+						sy = 1
+					}
+					sum += sx * sy * rectLogPhi(u-x, v-y)
 				}
 			}
 		}
 	}
-	return sum
+	return sum / 2 / (p.W * p.T * q.W * q.T)
 }
 
 // ringSelf returns the self-inductance, H, of a rectangular-section ring by the GMD form
-// L = μ0 R [ln(8R/g) − 2], g = 0.2235 (W + T) (Grover, Inductance Calculations, 1946, ch. 13 and Table 1).
-func ringSelf(p annulus) float64 { return em.LoopSelfGMD(p.R, em.RectGMD(p.W, p.T)) }
+// L = μ0 R [ln(8R/g) − 2] with g the section's exact GMD (Grover, Inductance Calculations, 1946, ch. 13;
+// em.RectGMD's 0.2235 (W + T) approximates the same g within 0.5 %).
+func ringSelf(p annulus) float64 { return em.LoopSelfGMD(p.R, math.Exp(sectionLogGMD(p, p))) }
+
+// ringMutual returns the mutual inductance, H, of two coaxial rectangular-section rings: Maxwell's formula
+// for filaments at the section centres, corrected for the finite sections by the GMD method,
+//
+//	M = M_Maxwell(R_p, R_q, Z_p − Z_q) + μ0 √(R_p R_q) ln(ρ/g),
+//
+// where ρ is the centres' distance in the meridian plane and g the sections' GMD. For neighbours M ≈
+// μ0 √(R_p R_q) [ln(8√(R_p R_q)/ρ) − 2] (Maxwell's close-circle limit, Grover ch. 13), so the correction
+// replaces the centre distance by the GMD, consistently with the self-inductance; for distant pairs ρ/g → 1.
+func ringMutual(p, q annulus) float64 {
+	m := em.Mutual(p.R, q.R, p.Z-q.Z)
+	rho := math.Hypot(p.R-q.R, p.Z-q.Z)
+	if rho < nearFactor*math.Max(math.Max(p.W, p.T), math.Max(q.W, q.T)) {
+		m += em.Mu0 * math.Sqrt(p.R*q.R) * (math.Log(rho) - sectionLogGMD(p, q))
+	}
+	return m
+}
 
 // ringInductance returns the fixed inductance matrix of the projectile's filaments, H (row-major, n × n),
 // and checks that it is symmetric positive definite by a Cholesky factorisation (gonum mat).
@@ -104,14 +143,7 @@ func ringInductance(rings []annulus) ([]float64, *mat.Cholesky, error) {
 	for i, p := range rings {
 		l[i*n+i] = ringSelf(p)
 		for j := i + 1; j < n; j++ {
-			q := rings[j]
-			dist := math.Hypot(p.R-q.R, p.Z-q.Z)
-			var m float64
-			if dist < nearFactor*math.Max(math.Max(p.W, p.T), math.Max(q.W, q.T)) {
-				m = sectionMutual(p, q)
-			} else {
-				m = em.Mutual(p.R, q.R, p.Z-q.Z)
-			}
+			m := ringMutual(p, rings[j])
 			l[i*n+j], l[j*n+i] = m, m
 		}
 	}
@@ -135,7 +167,7 @@ func ringInductance(rings []annulus) ([]float64, *mat.Cholesky, error) {
 // interpolant of the exact values and derivatives (Maxwell's formula and its analytic derivative), and
 // dM/dh is that interpolant's derivative, so that the force and the motional EMF come from one function and
 // the simulation conserves energy exactly in the limit of small steps. The interpolation error of a cubic
-// Hermite is h⁴ max|M””|/384 per interval; with Δu = 0.1 it is below 1e-6 relative (TestMutualTable).
+// Hermite is h⁴ max|M””|/384 per interval; with Δu = 0.08 it is below 1e-6 of the largest value (TestMutualTable).
 type mutualTable struct {
 	coil  []Filament
 	rings []annulus
@@ -145,7 +177,7 @@ type mutualTable struct {
 }
 
 // tableDu is the node spacing in u = ln(1 + h/a).
-const tableDu = 0.1
+const tableDu = 0.08
 
 // tableMaxNodes bounds the table (h up to a·e^{60} is far beyond any flight in the model).
 const tableMaxNodes = 600

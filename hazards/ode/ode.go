@@ -27,6 +27,9 @@ type Event struct {
 	// Dir selects the crossings: +1 only from negative to non-negative, −1 only from positive to
 	// non-positive, 0 both.
 	Dir int
+	// OnCross, when set, makes the event non-terminal: it is called with the located time and the
+	// interpolated state there (read-only, order-4 dense output) and the integration goes on.
+	OnCross func(t float64, y []float64)
 }
 
 // Options bound and tune one integration. The zero value of each field selects its default.
@@ -247,14 +250,33 @@ func (s *Solver) Integrate(f System, t0, tEnd float64, y []float64, events []Eve
 			if !allFinite(s.k1) {
 				return res, fmt.Errorf("%w: derivative at t = %g", ErrNonFinite, t)
 			}
-			// Events: first crossing in time order among those that changed sign.
+			// Terminal events: the first crossing in time order among those that changed sign.
 			best, bestT := -1, 0.0
 			for i, e := range events {
+				if e.OnCross != nil {
+					continue
+				}
 				g := e.G(t, y)
 				if crossed(s.evPrev[i], g, e.Dir) {
 					te := s.locate(e, s.evPrev[i], g, evTol)
 					if best < 0 || dir*(te-bestT) < 0 {
 						best, bestT = i, te
+					}
+				}
+				s.evPrev[i] = g
+			}
+			// Non-terminal events up to the terminal one (if any). locate and dense use s.ytmp, so the
+			// state passed to OnCross is interpolated afresh into s.yerr, free once the step is accepted.
+			for i, e := range events {
+				if e.OnCross == nil {
+					continue
+				}
+				g := e.G(t, y)
+				if crossed(s.evPrev[i], g, e.Dir) {
+					te := s.locate(e, s.evPrev[i], g, evTol)
+					if best < 0 || dir*(te-bestT) <= 0 {
+						s.dense(te, s.yerr)
+						e.OnCross(te, s.yerr)
 					}
 				}
 				s.evPrev[i] = g

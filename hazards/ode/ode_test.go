@@ -266,3 +266,34 @@ func TestObserve(t *testing.T) {
 		t.Errorf("got %d observer calls, want one per accepted step (%d)", n, res.Steps)
 	}
 }
+
+// TestNonTerminalEvents records every extremum of cos t (zeros of its derivative −sin t) at t = kπ
+// without stopping the integration.
+func TestNonTerminalEvents(t *testing.T) {
+	var hits []float64
+	var vals []float64
+	y := []float64{1, 0}
+	ev := []Event{{G: func(t float64, y []float64) float64 { return y[1] }, Dir: 0,
+		OnCross: func(t float64, y []float64) { hits = append(hits, t); vals = append(vals, y[0]) }}}
+	res, err := NewSolver(2).Integrate(func(t float64, y, dy []float64) { dy[0] = y[1]; dy[1] = -y[0] }, 0, 10, y, ev,
+		Options{RelTol: 1e-10, AbsTolAll: 1e-12})
+	if err != nil {
+		t.Fatalf("got error %v", err)
+	}
+	if res.T != 10 || res.Event != -1 {
+		t.Errorf("got end %g, event %d, want 10, −1", res.T, res.Event)
+	}
+	if len(hits) != 3 {
+		t.Fatalf("got %d extrema %v, want 3 (π, 2π, 3π)", len(hits), hits)
+	}
+	for k, h := range hits {
+		want := float64(k+1) * math.Pi
+		// Tolerance: located on the order-4 dense output at tolerance 1e-10; 1e-8 relative.
+		if !scalar.EqualWithinRel(h, want, 1e-8) {
+			t.Errorf("extremum %d: got t = %.12g, want %.12g", k, h, want)
+		}
+		if wantV := math.Cos(want); !scalar.EqualWithinAbs(vals[k], wantV, 1e-8) {
+			t.Errorf("extremum %d: got y = %.12g, want %.12g", k, vals[k], wantV)
+		}
+	}
+}
