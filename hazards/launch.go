@@ -8,6 +8,7 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
+	"chargeward/hazards/em"
 	"chargeward/hazards/ode"
 )
 
@@ -606,5 +607,457 @@ func sign(x float64) float64 {
 	return 0
 }
 
-// assessLaunch runs the launch simulation (DESIGN.md §4.6). PLACEHOLDER until issue 5 lands.
-func assessLaunch(a *Assessment) error { return nil }
+// Filament-count defaults and bounds (see chooseFilaments).
+const (
+	defaultRadialDisc = 16 // annuli across a solid disc
+	defaultRadialRing = 8  // annuli across a ring's width
+	maxRadial         = 48
+	maxLayers         = 6
+	maxFilaments      = 128
+)
+
+// chooseFilaments returns the radial and axial division of a projectile of radial width w and thickness
+// thick (m) for skin depth delta (m): at least the defaults radially and one annulus per skin depth, and
+// layers no thicker than half a skin depth through the thickness (the current crowds into the face next
+// to the coil within about one skin depth, δ = √(ρ/(π f μ0)); e.g. Jackson, Classical Electrodynamics,
+// 3rd ed., §5.18). requested (the rig's projectile.filaments) overrides the radial count.
+func chooseFilaments(w, thick, delta float64, ring bool, requested int) (nr, nz int) {
+	nr = defaultRadialDisc
+	if ring {
+		nr = defaultRadialRing
+	}
+	if delta > 0 {
+		nr = max(nr, int(math.Ceil(w/delta)))
+		nz = int(math.Ceil(2 * thick / delta))
+	}
+	if requested > 0 {
+		nr = requested
+	}
+	nr = min(max(nr, 2), maxRadial)
+	nz = min(max(nz, 1), maxLayers)
+	for nr*nz > maxFilaments && nr > 2 {
+		nr--
+	}
+	return nr, nz
+}
+
+// skinDepth returns δ = √(ρ/(π f μ0)), m, for resistivity rho (Ω·m) at frequency f (Hz), non-magnetic
+// conductor (Jackson, Classical Electrodynamics, 3rd ed., eq. 5.165).
+func skinDepth(rho, f float64) float64 { return math.Sqrt(rho / (math.Pi * f * em.Mu0)) }
+
+// defaultSimulationTimeout is the wall time allowed for the launch simulation when Targets.SimulationTimeout
+// is zero. The demo rig needs about 15 ms per run.
+const defaultSimulationTimeout = 10 * time.Second
+
+// convectionCoefficient is the heat-transfer coefficient assumed for the projectile's cool-down, W/(m²·K):
+// natural convection in still air is about 5–25 W/(m²·K) (common practice; e.g. Incropera & DeWitt,
+// Fundamentals of Heat and Mass Transfer, Table 1.1, from memory); the low end is taken so that the
+// cool-down is not understated. Radiation from bare aluminium or copper (ε ≈ 0.05) is neglected.
+const convectionCoefficient = 10
+
+// cooldownFraction: the cool-down time is the time for a shot's temperature rise to fall to this fraction,
+// so that shots repeated at that interval settle at most 1/(1 − 0.1) ≈ 1.11 times a single shot's rise.
+const cooldownFraction = 0.1
+
+// projectileSpec is the projectile as the launch model reads it from the rig.
+type projectileSpec struct {
+	kind              string
+	mat               Material
+	outerR, innerR    float64 // m
+	thick             float64 // m
+	mass, payload     float64 // kg
+	gap               float64 // m
+	requested         int
+	massStated        bool
+	specificHeatKnown bool
+}
+
+// readProjectile collects the projectile from the rig, recording a Gap for everything the simulation
+// needs and the rig does not state. ok is false when the launch cannot be simulated.
+func readProjectile(a *Assessment) (projectileSpec, bool) {
+	p := a.Rig.Projectile
+	var ps projectileSpec
+	ok := true
+	ps.kind = p.Kind
+	if ps.kind == "" {
+		ps.kind = "disc"
+		if p.InnerDiameter != nil && *p.InnerDiameter > 0 {
+			ps.kind = "ring"
+		}
+	}
+	ps.specificHeatKnown = true
+	switch m, found := MaterialByName(p.Material); {
+	case p.Material == "steel":
+		a.AddGap("projectile.material", "a steel projectile is ferromagnetic: it is pulled by the coil's field as well as pushed by eddy currents, which the eddy-current launch model does not describe; speed, height and heating are not computed")
+		return ps, false
+	case found:
+		ps.mat = m
+	case p.Resistivity != nil && *p.Resistivity > 0 && p.Density != nil && *p.Density > 0:
+		// Unknown alloy with stated resistivity and density: no temperature coefficient (resistance held at
+		// its 20 °C value, which overstates the currents and the speed) and no specific heat.
+		ps.mat = Material{Name: p.Material, Alpha20: 0, SpecificHeat: 900, Basis: "resistivity and density as stated in the rig; temperature coefficient taken as zero"}
+		ps.specificHeatKnown = false
+		a.AddGap("projectile.material", "the projectile's material is not in the materials table: its resistance is held at the stated 20 °C value and its temperature rise is not reported")
+	default:
+		a.AddGap("projectile.material", "the projectile's material (or its resistivity and density) is not stated, so the launch cannot be simulated")
+		ok = false
+	}
+	if p.Resistivity != nil && *p.Resistivity > 0 {
+		ps.mat.Resistivity20 = *p.Resistivity
+		ps.mat.Basis = "resistivity as stated in the rig; " + ps.mat.Basis
+	}
+	if p.Density != nil && *p.Density > 0 {
+		ps.mat.Density = *p.Density
+	}
+	if p.OuterDiameter != nil && *p.OuterDiameter > 0 {
+		ps.outerR = *p.OuterDiameter / 2
+	} else {
+		a.AddGap("projectile.outer_diameter", "the projectile's diameter is not stated, so the launch cannot be simulated")
+		ok = false
+	}
+	if p.Thickness != nil && *p.Thickness > 0 {
+		ps.thick = *p.Thickness
+	} else {
+		a.AddGap("projectile.thickness", "the projectile's thickness is not stated, so the launch cannot be simulated")
+		ok = false
+	}
+	switch {
+	case p.InnerDiameter != nil && *p.InnerDiameter > 0:
+		ps.innerR = *p.InnerDiameter / 2
+		if ps.outerR > 0 && ps.innerR >= ps.outerR {
+			a.AddGap("projectile.inner_diameter", "the ring's bore is not smaller than its outside diameter, so the launch cannot be simulated")
+			ok = false
+		}
+	case ps.kind == "ring":
+		a.AddGap("projectile.inner_diameter", "the ring's bore is not stated, so the launch cannot be simulated")
+		ok = false
+	}
+	if p.Gap != nil && *p.Gap >= 0 {
+		ps.gap = *p.Gap
+	} else {
+		a.AddGap("projectile.gap", "the projectile's starting gap is not stated: the launch is computed for the projectile lying directly on the coil face, the worst case")
+	}
+	if p.Payload != nil && *p.Payload > 0 {
+		ps.payload = *p.Payload
+	}
+	if p.Filaments != nil && *p.Filaments > 0 {
+		ps.requested = *p.Filaments
+	}
+	if !ok {
+		return ps, false
+	}
+	if p.Mass != nil && *p.Mass > 0 {
+		ps.mass, ps.massStated = *p.Mass, true
+	} else {
+		ps.mass = ps.mat.Density * math.Pi * (ps.outerR*ps.outerR - ps.innerR*ps.innerR) * ps.thick
+	}
+	return ps, true
+}
+
+// launchKinds are the rig kinds that throw a projectile: a missing projectile section is a gap for them.
+var launchKinds = map[string]bool{"disc-thrower": true, "ring-jumper": true, "coil-accelerator": true}
+
+// assessLaunch runs the launch simulation (DESIGN.md §4.6) at the nominal and the worst bank (+C tolerance,
+// worst charge voltage) and adds the launch, flight, heating and exclusion quantities.
+func assessLaunch(a *Assessment) error {
+	r := a.Rig
+	if r.Projectile == nil {
+		if launchKinds[r.Rig.Kind] {
+			a.AddGap("projectile", "the rig throws a projectile but describes none, so its speed, height and heating cannot be computed")
+		}
+		return nil
+	}
+	ps, ok := readProjectile(a)
+	if a.m.coil == nil {
+		a.AddGap("coil", "the coil is not computable, so the launch cannot be simulated")
+		ok = false
+	}
+	if a.m.loop == nil {
+		a.AddGap("switch", "the discharge loop is not computable, so the launch cannot be simulated")
+		ok = false
+	}
+	if !ok {
+		return nil
+	}
+	loop := *a.m.loop
+	ambient := a.Targets.ReferenceAmbient
+	if r.Coil != nil && r.Coil.Ambient != nil && *r.Coil.Ambient > 0 {
+		ambient = *r.Coil.Ambient
+	}
+	if !(ambient > 0) {
+		ambient = 293.15
+	}
+
+	// Pulse frequency for the skin depth: a quarter period to the coil-only peak.
+	freq := 1 / (2 * math.Pi * math.Sqrt((loop.L+loop.CoilL)*loop.C))
+	if pr, err := RLCPulse(loop); err == nil && pr.TimeToPeak > 0 {
+		freq = 1 / (4 * pr.TimeToPeak)
+	}
+	delta := skinDepth(ps.mat.Resistivity20, freq)
+	nr, nz := chooseFilaments(ps.outerR-ps.innerR, ps.thick, delta, ps.innerR > 0, ps.requested)
+
+	setup, err := newLaunchSetup(launchInput{coil: a.m.coil, loop: loop, mat: ps.mat, outerR: ps.outerR, innerR: ps.innerR,
+		thick: ps.thick, gap: ps.gap, mass: ps.mass, payload: ps.payload, nr: nr, nz: nz, ambient: ambient})
+	if err != nil {
+		return err
+	}
+	timeout := defaultSimulationTimeout
+	if a.Targets.SimulationTimeout > 0 {
+		timeout = time.Duration(a.Targets.SimulationTimeout * float64(time.Second))
+	}
+	opt := launchOptions{record: true, deadline: time.Now().Add(timeout)}
+	nom, err := setup.run(loop.C, loop.V0, opt)
+	if err != nil {
+		return fmt.Errorf("%w (allowed %v of wall time and %d steps; the rig may need a coarser projectile division)", err, timeout, 200000)
+	}
+	worst := nom
+	hasWorst := false
+	if b := a.m.bank; b != nil && b.CWorst > 0 && b.VWorst > 0 && (b.CWorst != loop.C || b.VWorst != loop.V0) {
+		opt.record = false
+		w, err := setup.run(b.CWorst, b.VWorst, opt)
+		if err != nil {
+			return fmt.Errorf("%w (worst-case bank; allowed %v of wall time)", err, timeout)
+		}
+		worst, hasWorst = w, true
+	}
+	return addLaunchQuantities(a, setup, ps, nr, nz, freq, delta, nom, worst, hasWorst)
+}
+
+// flight is the no-drag ballistic flight after the electromagnetic push.
+type flight struct {
+	apex          float64 // m above the start
+	reaches       bool    // the projectile's top reaches the ceiling
+	clearance     float64 // m from the projectile's top at rest to the ceiling
+	timeToCeiling float64 // s from firing
+	impactSpeed   float64 // m/s at the ceiling
+}
+
+// ballistic returns the flight of a projectile leaving height rise (m) at speed v (m/s) at time t0 (s),
+// under gravity alone, against a ceiling clearance (m; ≤ 0 when unknown):
+// apex = rise + v²/2g; it reaches the ceiling if apex ≥ clearance, at t0 + (v − √(v² − 2g(D − rise)))/g
+// with speed √(v² − 2g(D − rise)) (uniformly accelerated motion).
+func ballistic(rise, v, t0, clearance float64) flight {
+	f := flight{apex: rise + math.Max(v, 0)*math.Max(v, 0)/(2*gravity), clearance: clearance}
+	if clearance > 0 && v > 0 && f.apex >= clearance {
+		f.reaches = true
+		disc := math.Max(v*v-2*gravity*(clearance-rise), 0)
+		f.impactSpeed = math.Sqrt(disc)
+		f.timeToCeiling = t0 + (v-f.impactSpeed)/gravity
+	}
+	return f
+}
+
+// tiltedRange returns the horizontal distance, m, at which a projectile launched at speed v (m/s), tilted
+// by theta (rad) from the vertical, comes back to its launch level: v² sin 2θ / g with no ceiling (uniformly
+// accelerated motion); with a ceiling at clearance D that it reaches, it keeps its horizontal speed
+// v sin θ while it rises to the ceiling and then falls from rest there (vertical speed lost at the ceiling,
+// the longest fall), which is conservative.
+func tiltedRange(v, theta, clearance float64) float64 {
+	vx, vz := v*math.Sin(theta), v*math.Cos(theta)
+	if clearance > 0 && vz*vz/(2*gravity) >= clearance {
+		up := (vz - math.Sqrt(vz*vz-2*gravity*clearance)) / gravity
+		return vx * (up + math.Sqrt(2*clearance/gravity))
+	}
+	return v * v * math.Sin(2*theta) / gravity
+}
+
+// addLaunchQuantities turns the runs into quantities and curves.
+func addLaunchQuantities(a *Assessment, s *launchSetup, ps projectileSpec, nr, nz int, freq, delta float64, nom, worst launchRun, hasWorst bool) error {
+	r := a.Rig
+	m := s.mass
+	w := func(v float64) *float64 {
+		if hasWorst {
+			return Worst(v)
+		}
+		return nil
+	}
+	basis := "coupled-circuit current-filament model (coil turns and projectile annuli as coaxial circuits; Maxwell's mutual inductance, " +
+		"Treatise §701; self-inductance by the GMD method, Grover 1946 ch. 13) integrated by Dormand–Prince 5(4) (Hairer, Nørsett & Wanner 1993 §II.4); " +
+		"checked by energy balance and by its distant-projectile limit, the closed-form R-L-C pulse"
+	model := fmt.Sprintf("%d × %d projectile filaments (skin depth %.3g mm at %.4g Hz); coil↔filament mutuals tabulated (cubic Hermite, error < 1e-6); %d integrator steps",
+		nr, nz, delta*1e3, freq, nom.Steps)
+	worstNote := "worst case at +C tolerance and the worst charge voltage"
+	if !hasWorst {
+		worstNote = "no worst-case bank stated"
+	}
+	inRun := []Input{
+		{"C", "bank.capacitance", nom.C, "F"}, {"V0", "bank.voltage", nom.V0, "V"},
+		{"m", "projectile.mass", m, "kg"}, {"gap", "projectile.gap", ps.gap, "m"},
+		{"ρ20", "projectile.resistivity", ps.mat.Resistivity20, "Ω·m"},
+	}
+	massNote := "mass from the geometry and the material's density"
+	if ps.massStated {
+		massNote = "mass as stated"
+	}
+	if ps.payload > 0 {
+		massNote += fmt.Sprintf(", plus a %.3g kg payload", ps.payload)
+	}
+	speedW := worst.Speed
+	qs := []Quantity{
+		{Name: "launch.speed", Value: nom.Speed, Worst: w(speedW), Unit: "m/s",
+			Formula: "v at the end of the push: m dv/dt = i_c Σ_k i_k ∂M_k/∂h − m g, with L(h) di/dt = e − v (∂L/∂h) i",
+			Inputs:  inRun, Basis: basis, Note: joinLaunchNotes(model, massNote, "no air drag", worstNote)},
+		{Name: "launch.kinetic_energy", Value: 0.5 * m * nom.Speed * nom.Speed, Worst: w(0.5 * m * speedW * speedW), Unit: "J",
+			Formula: "E = ½ m v²", Inputs: []Input{{"m", "projectile.mass", m, "kg"}, {"v", "launch.speed", nom.Speed, "m/s"}},
+			Basis: "kinetic energy of a rigid body in translation", Note: joinLaunchNotes(massNote, worstNote)},
+		{Name: "launch.momentum", Value: m * nom.Speed, Worst: w(m * speedW), Unit: "kg·m/s",
+			Formula: "p = m v", Inputs: []Input{{"m", "projectile.mass", m, "kg"}, {"v", "launch.speed", nom.Speed, "m/s"}},
+			Basis: "momentum of a rigid body in translation", Note: joinLaunchNotes(massNote, worstNote)},
+		{Name: "launch.peak_force", Value: nom.PeakForce, Worst: w(worst.PeakForce), Unit: "N",
+			Formula: "F = max i_c Σ_k i_k ∂M_k/∂h", Inputs: inRun, Basis: basis, Note: worstNote},
+		{Name: "launch.peak_acceleration", Value: nom.PeakForce / m, Worst: w(worst.PeakForce / m), Unit: "m/s²",
+			Formula: "a = F_max / m", Inputs: []Input{{"F", "launch.peak_force", nom.PeakForce, "N"}, {"m", "projectile.mass", m, "kg"}},
+			Basis: "Newton's second law", Note: joinLaunchNotes(fmt.Sprintf("%.3g g_n", nom.PeakForce/m/gravity), worstNote)},
+		{Name: "launch.peak_current_with_projectile", Value: nom.PeakCurrent, Worst: w(worst.PeakCurrent), Unit: "A",
+			Formula: "max |i_c(t)| with the projectile's filaments coupled", Inputs: inRun, Basis: basis,
+			Note: joinLaunchNotes(fmt.Sprintf("at %.4g ms", nom.TimeToPeak*1e3), worstNote)},
+		{Name: "launch.efficiency", Value: nom.Kinetic / nom.Stored, Unit: "1",
+			Formula: "η = ½ m v² / ½ C V0²", Inputs: []Input{{"E", "launch.kinetic_energy", nom.Kinetic, "J"}, {"W", "bank.energy", nom.Stored, "J"}},
+			Basis: "definition", Note: fmt.Sprintf("energy balance: %.3g J left in the bank, %.3g J lost in the loop, %.3g J heating the projectile, %.3g J still in the fields",
+				nom.Bank, nom.LoopLoss, nom.RingLoss, nom.Field)},
+	}
+	if ps.specificHeatKnown {
+		qs = append(qs, Quantity{Name: "projectile.temperature_rise", Value: nom.MaxRise, Worst: w(worst.MaxRise), Unit: "K",
+			Formula: "ΔT = max_k ∫ i_k² R_k(T_k) dt / (ρ_m c V_k), R_k = ρ20 [1 + α20 (T_k − 20 °C)] 2π r_k / A_k",
+			Inputs:  []Input{{"ρ20", "projectile.resistivity", ps.mat.Resistivity20, "Ω·m"}, {"α20", "projectile.material", ps.mat.Alpha20, "1/K"}, {"c", "projectile.material", ps.mat.SpecificHeat, "J/(kg·K)"}},
+			Basis:   basis + "; material: " + ps.mat.Basis,
+			Note: joinLaunchNotes(fmt.Sprintf("hottest filament, adiabatic during the pulse; the mean rise of the conductor is %.3g K", nom.MeanRise),
+				"the hottest filament's rise grows somewhat with finer division (current crowding at the rim and the face near the coil)", worstNote)})
+		area := 2*math.Pi*(ps.outerR*ps.outerR-ps.innerR*ps.innerR) + 2*math.Pi*(ps.outerR+ps.innerR)*ps.thick
+		cond := ps.mat.Density * math.Pi * (ps.outerR*ps.outerR - ps.innerR*ps.innerR) * ps.thick
+		tau := cond * ps.mat.SpecificHeat / (convectionCoefficient * area)
+		qs = append(qs, Quantity{Name: "projectile.cooldown", Value: tau * math.Log(1/cooldownFraction), Unit: "s",
+			Formula: "t = τ ln(1/0.1), τ = m c / (h A) (lumped body, Newton cooling)",
+			Inputs: []Input{{"m", "projectile.mass", cond, "kg"}, {"c", "projectile.material", ps.mat.SpecificHeat, "J/(kg·K)"},
+				{"h", "natural convection", convectionCoefficient, "W/(m²·K)"}, {"A", "projectile surface", area, "m²"}},
+			Basis: "Newton's law of cooling for a lumped body (Biot number ≪ 1 for a thin metal part); h for still air is common practice",
+			Note:  "time for a shot's temperature rise to fall to 10 %, so that repeated shots settle within 1.11 × one shot's rise; still air, no radiation, the payload not counted"})
+	}
+
+	// Flight: height against the ceiling, time to reach it.
+	clearance := 0.0
+	if r.Room != nil && r.Room.CeilingHeight != nil && *r.Room.CeilingHeight > 0 {
+		clearance = *r.Room.CeilingHeight - ps.gap - ps.thick
+	} else {
+		a.AddGap("room.ceiling_height", "the ceiling height is not stated, so whether and how fast the projectile strikes the ceiling cannot be computed")
+	}
+	fn := ballistic(nom.Rise, nom.Speed, nom.TEnd, clearance)
+	fw := ballistic(worst.Rise, worst.Speed, worst.TEnd, clearance)
+	hNote := "no-drag bound (drag only lowers it)"
+	if clearance > 0 {
+		if fn.reaches {
+			hNote += fmt.Sprintf("; it exceeds the %.3g m clearance to the ceiling, which the projectile strikes", clearance)
+		} else {
+			hNote += fmt.Sprintf("; below the %.3g m clearance to the ceiling", clearance)
+		}
+	}
+	qs = append(qs, Quantity{Name: "launch.height", Value: fn.apex, Worst: w(fw.apex), Unit: "m",
+		Formula: "h = Δh + v²/(2 g), g = 9.80665 m/s²", Inputs: []Input{{"v", "launch.speed", nom.Speed, "m/s"}, {"Δh", "rise during the push", nom.Rise, "m"}},
+		Basis: "uniformly accelerated motion under standard gravity (ISO 80000-3)", Note: joinLaunchNotes(hNote, worstNote)})
+	if fn.reaches || fw.reaches {
+		ceilIn := []Input{{"v", "launch.speed", nom.Speed, "m/s"}, {"D", "room.ceiling_height − gap − thickness", clearance, "m"}}
+		tn, vn := fn.timeToCeiling, fn.impactSpeed
+		if !fn.reaches { // only the worst case reaches it
+			tn, vn = fw.timeToCeiling, fw.impactSpeed
+		}
+		qs = append(qs,
+			Quantity{Name: "launch.time_to_ceiling", Value: tn, Worst: w(fw.timeToCeiling), Unit: "s",
+				Formula: "t = t_push + (v − √(v² − 2g(D − Δh)))/g", Inputs: ceilIn,
+				Basis: "uniformly accelerated motion, no drag", Note: joinLaunchNotes("from firing; far quicker than anyone can react", worstNote)},
+			Quantity{Name: "launch.ceiling_impact_speed", Value: vn, Worst: w(fw.impactSpeed), Unit: "m/s",
+				Formula: "v_c = √(v² − 2g(D − Δh))", Inputs: ceilIn,
+				Basis: "uniformly accelerated motion, no drag (an upper bound)", Note: worstNote})
+	}
+
+	// Exclusion radius for a tilted launch.
+	theta, tiltNote := a.Targets.LaunchTilt, "default worst-case tilt of the policy"
+	if r.Room != nil && r.Room.Tilt != nil && *r.Room.Tilt >= 0 {
+		theta, tiltNote = *r.Room.Tilt, "tilt as stated for the room"
+	}
+	if r.Room != nil && r.Room.LaunchAxis == "horizontal" {
+		theta, tiltNote = math.Pi/4, "horizontal launch axis: the 45° range, the longest of any direction from the launch level"
+	}
+	if r.Room != nil && r.Room.LaunchAxis == "tilted" && r.Room.Tilt == nil {
+		theta, tiltNote = math.Pi/4, "tilted launch axis with no stated tilt: the 45° range, the longest of any direction"
+		a.AddGap("room.tilt", "the launch is tilted but its angle is not stated: the exclusion radius is taken for the longest (45°) throw")
+	}
+	if theta > 0 {
+		rn := tiltedRange(nom.Speed, theta, clearance) + ps.outerR
+		rw := tiltedRange(worst.Speed, theta, clearance) + ps.outerR
+		exIn := []Input{{"v", "launch.speed", nom.Speed, "m/s"}, {"θ", "room.tilt", theta, "rad"}, {"D", "ceiling clearance", clearance, "m"}}
+		if r.Rig.AudienceDistance != nil {
+			exIn = append(exIn, Input{"d_aud", "rig.audience_distance", *r.Rig.AudienceDistance, "m"})
+		}
+		qs = append(qs, Quantity{Name: "launch.exclusion_radius", Value: rn, Worst: w(rw), Unit: "m",
+			Formula: "R = v² sin 2θ / g + r_p; with a ceiling it reaches: R = v sin θ (t_up + √(2D/g)) + r_p",
+			Inputs:  exIn, Basis: "projectile motion without drag (an upper bound on the range)",
+			Note: joinLaunchNotes(fmt.Sprintf("%s, %.3g°", tiltNote, theta*180/math.Pi), "landing at the launch level; a bounce or a fall from a bench goes further; no guard counted", worstNote)})
+	}
+
+	// Measured launch height: speed and energy from it, beside the prediction.
+	if ms := r.Measurements; ms != nil && ms.LaunchHeight != nil && *ms.LaunchHeight > 0 {
+		hm := *ms.LaunchHeight
+		vm := math.Sqrt(2 * gravity * hm)
+		mIn := []Input{{"h", "measurements.launch_height", hm, "m"}, {"m", "projectile.mass", m, "kg"}}
+		qs = append(qs,
+			Quantity{Name: "launch.measured_speed", Value: vm, Unit: "m/s", Formula: "v = √(2 g h_measured)", Inputs: mIn,
+				Basis: "uniformly accelerated motion, no drag (a lower bound on the true speed)",
+				Note:  fmt.Sprintf("predicted %.3g m/s; ratio measured/predicted %.3g", nom.Speed, ratio(vm, nom.Speed))},
+			Quantity{Name: "launch.measured_energy", Value: m * gravity * hm, Unit: "J", Formula: "E = m g h_measured", Inputs: mIn,
+				Basis: "conservation of energy in free flight, no drag",
+				Note:  fmt.Sprintf("predicted %.3g J", nom.Kinetic)})
+	}
+	for _, q := range qs {
+		if err := a.Add(q); err != nil {
+			return err
+		}
+	}
+
+	// Curves from the nominal run, the height continued through the free flight to the apex or ceiling.
+	a.Curves = append(a.Curves,
+		Curve{Name: "launch.current", XLabel: "time (s)", YLabel: "coil current with the projectile (A)", XUnit: "s", YUnit: "A", X: nom.T, Y: nom.I},
+		Curve{Name: "launch.bank_voltage", XLabel: "time (s)", YLabel: "bank voltage with the projectile (V)", XUnit: "s", YUnit: "V", X: nom.T, Y: nom.V})
+	hx := append([]float64(nil), nom.T...)
+	hy := append([]float64(nil), nom.H...)
+	if nom.Speed > 0 {
+		tStop := nom.Speed / gravity
+		if fn.reaches {
+			tStop = fn.timeToCeiling - nom.TEnd
+		}
+		const samples = 64
+		for i := 1; i <= samples; i++ {
+			dt := tStop * float64(i) / samples
+			hx = append(hx, nom.TEnd+dt)
+			hy = append(hy, nom.Rise+nom.Speed*dt-0.5*gravity*dt*dt)
+		}
+	}
+	a.Curves = append(a.Curves, Curve{Name: "launch.height", XLabel: "time (s)", YLabel: "projectile height above its start (m)", XUnit: "s", YUnit: "m", X: hx, Y: hy})
+	for _, c := range a.Curves[len(a.Curves)-3:] {
+		if !finite(c.X...) || !finite(c.Y...) {
+			return fmt.Errorf("curve %s: %w", c.Name, ErrNonFinite)
+		}
+	}
+	return nil
+}
+
+func ratio(a, b float64) float64 {
+	if b == 0 {
+		return 0
+	}
+	return a / b
+}
+
+// joinLaunchNotes joins the non-empty notes with "; ".
+func joinLaunchNotes(n ...string) string {
+	var out string
+	for _, s := range n {
+		if s == "" {
+			continue
+		}
+		if out != "" {
+			out += "; "
+		}
+		out += s
+	}
+	return out
+}

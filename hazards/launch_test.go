@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"os"
 	"testing"
 	"time"
 
@@ -12,6 +13,7 @@ import (
 
 	"chargeward/hazards/em"
 	"chargeward/hazards/ode"
+	"chargeward/schema"
 )
 
 // demoCoil builds the demo disc thrower's coil as the tests use it until the coil stage supplies one: a
@@ -370,5 +372,181 @@ func TestLaunchBounds(t *testing.T) {
 				t.Errorf("got error %v, want %v wrapping %v", err, ErrSimulation, tc.want)
 			}
 		})
+	}
+}
+
+// demoAssessment loads a demo rig and attaches the test coil, loop and bank models (the coil and pulse
+// stages fill these in a full assessment).
+func demoAssessment(t testing.TB, edit func(*schema.Rig)) *Assessment {
+	t.Helper()
+	data, err := os.ReadFile("../testdata/rigs/disc-thrower.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	rig, err := schema.LoadRig("disc-thrower.yaml", data)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if edit != nil {
+		edit(rig)
+	}
+	c, _, _ := demoCoil()
+	l := demoLoop(c)
+	a := &Assessment{Rig: rig, Targets: DefaultTargets()}
+	a.m.coil, a.m.loop = c, &l
+	a.m.bank = &BankModel{C: l.C, CWorst: 1.2 * l.C, V: l.V0, VWorst: 790}
+	return a
+}
+
+// TestAssessLaunchDemo runs the launch and field stages on the demo disc thrower and checks that every
+// quantity is present, finite, carries a unit, formula and basis, and agrees with the physics it reports.
+func TestAssessLaunchDemo(t *testing.T) {
+	a := demoAssessment(t, nil)
+	if err := assessLaunch(a); err != nil {
+		t.Fatalf("assessLaunch: got error %v", err)
+	}
+	if err := assessField(a); err != nil {
+		t.Fatalf("assessField: got error %v", err)
+	}
+	for _, g := range a.Gaps {
+		t.Errorf("got gap %s (%s), want none for the demo rig", g.Field, g.Effect)
+	}
+	names := []string{"launch.speed", "launch.kinetic_energy", "launch.momentum", "launch.peak_force", "launch.peak_acceleration",
+		"launch.peak_current_with_projectile", "launch.efficiency", "projectile.temperature_rise", "projectile.cooldown",
+		"launch.height", "launch.time_to_ceiling", "launch.ceiling_impact_speed", "launch.exclusion_radius",
+		"field.peak_flux_density", "field.implant_distance"}
+	for _, n := range names {
+		q, ok := a.Q(n)
+		if !ok {
+			t.Errorf("got no %s, want it", n)
+			continue
+		}
+		if q.Unit == "" || q.Formula == "" || q.Basis == "" || !(q.Value >= 0) {
+			t.Errorf("%s: got unit %q, formula %q, basis %q, value %g; want all set and a non-negative value", n, q.Unit, q.Formula, q.Basis, q.Value)
+		}
+		if q.Worst != nil && *q.Worst < q.Value && n != "launch.time_to_ceiling" {
+			t.Errorf("%s: got worst %g below nominal %g", n, *q.Worst, q.Value)
+		}
+		t.Logf("%-38s %12.5g %-6s worst %v  (%s)", n, q.Value, q.Unit, fmtWorst(q.Worst), q.Note)
+	}
+	v, _ := a.Q("launch.speed")
+	ke, _ := a.Q("launch.kinetic_energy")
+	h, _ := a.Q("launch.height")
+	// Identities: E = ½ m v² with the demo disc's mass, h ≥ v²/2g (plus the rise during the push).
+	m := Aluminium6061.Density * math.Pi * 0.055 * 0.055 * 3e-3
+	if !scalar.EqualWithinRel(ke.Value, 0.5*m*v.Value*v.Value, 1e-12) {
+		t.Errorf("got kinetic energy %g J, want ½ m v² = %g J", ke.Value, 0.5*m*v.Value*v.Value)
+	}
+	if h.Value < v.Value*v.Value/(2*gravity) {
+		t.Errorf("got height %g m, want at least v²/2g = %g m", h.Value, v.Value*v.Value/(2*gravity))
+	}
+	for _, c := range []string{"launch.current", "launch.bank_voltage", "launch.height"} {
+		cv, ok := a.Curve(c)
+		if !ok || len(cv.X) < 10 || len(cv.X) != len(cv.Y) {
+			t.Errorf("curve %s: got %v with %d points, want it sampled", c, ok, len(cv.X))
+		}
+	}
+	if _, ok := a.Q("launch.measured_speed"); ok {
+		t.Errorf("got launch.measured_speed without a measured launch height")
+	}
+}
+
+func fmtWorst(w *float64) string {
+	if w == nil {
+		return "—"
+	}
+	return fmt.Sprintf("%.5g", *w)
+}
+
+// TestAssessLaunchGaps checks that missing or unmodellable inputs become gaps, never silent defaults.
+func TestAssessLaunchGaps(t *testing.T) {
+	f := func(v float64) *float64 { return &v }
+	tests := []struct {
+		name     string
+		edit     func(*schema.Rig)
+		noModels bool
+		gap      string
+		computed bool // the launch is still computed (on a worst-case assumption)
+	}{
+		{"steel projectile", func(r *schema.Rig) { r.Projectile.Material = "steel" }, false, "projectile.material", false},
+		{"no material", func(r *schema.Rig) { r.Projectile.Material = "" }, false, "projectile.material", false},
+		{"no thickness", func(r *schema.Rig) { r.Projectile.Thickness = nil }, false, "projectile.thickness", false},
+		{"no diameter", func(r *schema.Rig) { r.Projectile.OuterDiameter = nil }, false, "projectile.outer_diameter", false},
+		{"ring without bore", func(r *schema.Rig) { r.Projectile.Kind = "ring" }, false, "projectile.inner_diameter", false},
+		{"no gap: computed lying on the coil", func(r *schema.Rig) { r.Projectile.Gap = nil }, false, "projectile.gap", true},
+		{"no ceiling", func(r *schema.Rig) { r.Room.CeilingHeight = nil }, false, "room.ceiling_height", true},
+		{"no projectile on a disc thrower", func(r *schema.Rig) { r.Projectile = nil }, false, "projectile", false},
+		{"no coil model", nil, true, "coil", false},
+		{"unknown alloy with resistivity and density", func(r *schema.Rig) {
+			r.Projectile.Material = "other"
+			r.Projectile.Resistivity, r.Projectile.Density = f(5e-8), f(2700)
+		}, false, "projectile.material", true},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			a := demoAssessment(t, tc.edit)
+			if tc.noModels {
+				a.m.coil = nil
+			}
+			if err := assessLaunch(a); err != nil {
+				t.Fatalf("got error %v, want a gap", err)
+			}
+			found := false
+			for _, g := range a.Gaps {
+				found = found || g.Field == tc.gap
+			}
+			if !found {
+				t.Errorf("got gaps %v, want one for %s", a.Gaps, tc.gap)
+			}
+			if _, ok := a.Q("launch.speed"); ok != tc.computed {
+				t.Errorf("got launch.speed computed %v, want %v", ok, tc.computed)
+			}
+		})
+	}
+}
+
+// TestAssessLaunchMeasured checks the speed and energy derived from a measured launch height:
+// v = √(2 g h), E = m g h (free flight without drag).
+func TestAssessLaunchMeasured(t *testing.T) {
+	h := 1.8
+	a := demoAssessment(t, func(r *schema.Rig) { r.Measurements.LaunchHeight = &h })
+	if err := assessLaunch(a); err != nil {
+		t.Fatal(err)
+	}
+	v, ok1 := a.Q("launch.measured_speed")
+	e, ok2 := a.Q("launch.measured_energy")
+	m := Aluminium6061.Density * math.Pi * 0.055 * 0.055 * 3e-3
+	if !ok1 || !ok2 || !scalar.EqualWithinRel(v.Value, math.Sqrt(2*gravity*h), 1e-14) || !scalar.EqualWithinRel(e.Value, m*gravity*h, 1e-12) {
+		t.Errorf("got %v %g m/s, %v %g J; want %g m/s, %g J", ok1, v.Value, ok2, e.Value, math.Sqrt(2*gravity*h), m*gravity*h)
+	}
+}
+
+// BenchmarkLaunch times one full simulation of the demo disc thrower (setup of the fixed matrices and the
+// table, and one shot with its waveforms recorded) at the division chooseFilaments picks for it (16 × 2).
+// Target: ≤ 50 ms per run on the project's 2-core machine.
+func BenchmarkLaunch(b *testing.B) {
+	in := demoInput(16, 2)
+	b.ReportAllocs()
+	for b.Loop() {
+		s, err := newLaunchSetup(in)
+		if err != nil {
+			b.Fatal(err)
+		}
+		if _, err := s.run(in.loop.C, in.loop.V0, launchOptions{record: true}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// BenchmarkLaunchAssess times the whole launch stage on the demo rig: setup, the nominal and the worst-case
+// shots, the flight and the quantities.
+func BenchmarkLaunchAssess(b *testing.B) {
+	a0 := demoAssessment(b, nil)
+	b.ReportAllocs()
+	for b.Loop() {
+		a := &Assessment{Rig: a0.Rig, Targets: a0.Targets, m: a0.m}
+		if err := assessLaunch(a); err != nil {
+			b.Fatal(err)
+		}
 	}
 }
