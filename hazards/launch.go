@@ -613,7 +613,7 @@ const (
 	defaultRadialRing = 8  // annuli across a ring's width
 	maxRadial         = 48
 	maxLayers         = 6
-	maxFilaments      = 128
+	maxProjectileFilaments      = 128
 )
 
 // chooseFilaments returns the radial and axial division of a projectile of radial width w and thickness
@@ -635,7 +635,7 @@ func chooseFilaments(w, thick, delta float64, ring bool, requested int) (nr, nz 
 	}
 	nr = min(max(nr, 2), maxRadial)
 	nz = min(max(nz, 1), maxLayers)
-	for nr*nz > maxFilaments && nr > 2 {
+	for nr*nz > maxProjectileFilaments && nr > 2 {
 		nr--
 	}
 	return nr, nz
@@ -1002,7 +1002,7 @@ func addLaunchQuantities(a *Assessment, s *launchSetup, ps projectileSpec, nr, n
 		qs = append(qs,
 			Quantity{Name: "launch.measured_speed", Value: vm, Unit: "m/s", Formula: "v = √(2 g h_measured)", Inputs: mIn,
 				Basis: "uniformly accelerated motion, no drag (a lower bound on the true speed)",
-				Note:  fmt.Sprintf("predicted %.3g m/s; ratio measured/predicted %.3g", nom.Speed, ratio(vm, nom.Speed))},
+				Note:  fmt.Sprintf("predicted %.3g m/s; ratio measured/predicted %.3g", nom.Speed, launchRatio(vm, nom.Speed))},
 			Quantity{Name: "launch.measured_energy", Value: m * gravity * hm, Unit: "J", Formula: "E = m g h_measured", Inputs: mIn,
 				Basis: "conservation of energy in free flight, no drag",
 				Note:  fmt.Sprintf("predicted %.3g J", nom.Kinetic)})
@@ -1040,7 +1040,7 @@ func addLaunchQuantities(a *Assessment, s *launchSetup, ps projectileSpec, nr, n
 	return nil
 }
 
-func ratio(a, b float64) float64 {
+func launchRatio(a, b float64) float64 {
 	if b == 0 {
 		return 0
 	}
