@@ -111,8 +111,8 @@ func (d *doc) figure(title string, ss []series, refs []refLine, what string) {
 	}
 	if len(ok) == 0 {
 		ss := d.spans(caption, marginL, contentW, sans, "B", 10)
-		ss = append(ss, d.spans("Not drawn: the assessment has no "+what+"; the rig description does not state "+
-			"what the model needs (see the findings and section 1).", marginL, contentW, sans, "I", 9)...)
+		ss = append(ss, d.spans("Not drawn: the assessment has no "+what+". Where the rig description leaves out "+
+			"what the model needs, the findings and section 1 name it.", marginL, contentW, sans, "I", 9)...)
 		d.y += 2
 		d.flow(ss, nil)
 		d.y += 4

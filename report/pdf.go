@@ -140,11 +140,13 @@ func layout(r *rules.Review, opt Options, total int) (d *doc, err error) {
 	p.SetKeywords(FingerprintKey+d.fp, false)
 	p.SetMargins(marginL, bodyTop, marginR)
 	p.SetAutoPageBreak(false, 0)
-	p.AddUTF8FontFromBytes(sans, "", goregular.TTF)
-	p.AddUTF8FontFromBytes(sans, "B", gobold.TTF)
-	p.AddUTF8FontFromBytes(sans, "I", goitalic.TTF)
-	p.AddUTF8FontFromBytes(mono, "", gomono.TTF)
-	p.AddUTF8FontFromBytes(mono, "B", gomonobold.TTF)
+	// fpdf's subsetter writes into the font bytes it is given, so each rendering gets its own copy: the
+	// shared gofont slices stay pristine and the next rendering in this process gives the same bytes.
+	p.AddUTF8FontFromBytes(sans, "", bytes.Clone(goregular.TTF))
+	p.AddUTF8FontFromBytes(sans, "B", bytes.Clone(gobold.TTF))
+	p.AddUTF8FontFromBytes(sans, "I", bytes.Clone(goitalic.TTF))
+	p.AddUTF8FontFromBytes(mono, "", bytes.Clone(gomono.TTF))
+	p.AddUTF8FontFromBytes(mono, "B", bytes.Clone(gomonobold.TTF))
 	p.SetHeaderFunc(d.header)
 	p.SetFooterFunc(d.footer)
 

@@ -148,7 +148,7 @@ func (d *doc) summary() {
 	if len(rows) == 0 {
 		d.paragraph("No key quantity could be computed from the rig description.", "I", 9)
 	} else {
-		d.table([]column{{"quantity", 58, mono, "", 8}, {"meaning", 64, sans, "", 8.5},
+		d.table([]column{{"quantity", 62, mono, "", 7.5}, {"meaning", 60, sans, "", 8.5},
 			{"nominal", 26, sans, "B", 8.5}, {"worst case", contentW - 148, sans, "B", 8.5}}, rows, tableOpt{})
 	}
 	gaps := d.r.Assessment.Gaps
@@ -162,7 +162,7 @@ func (d *doc) summary() {
 	for _, x := range gaps {
 		g = append(g, []string{x.Field, x.Effect})
 	}
-	d.table([]column{{"rig field", 58, mono, "", 8}, {"what cannot be checked", contentW - 58, sans, "", 8.5}}, g, tableOpt{})
+	d.table([]column{{"rig field", 62, mono, "", 7.5}, {"what cannot be checked", contentW - 62, sans, "", 8.5}}, g, tableOpt{})
 }
 
 func (d *doc) findings() {
@@ -292,7 +292,7 @@ func (d *doc) checklist() {
 			other = append(other, c)
 		}
 	}
-	const boxW, measW, initW = 12.0, 52.0, 20.0
+	const boxW, measW, initW = 12.0, 46.0, 20.0
 	cols := []column{{"done", boxW, sans, "", 9}, {"step", contentW - boxW - measW - initW, sans, "", 9},
 		{"measured value", measW, sans, "", 7.5}, {"initials", initW, sans, "", 9}}
 	draw := func(title string, items []rules.ChecklistItem) {

@@ -2,6 +2,7 @@ package report
 
 import (
 	"bytes"
+	"crypto/sha256"
 	"errors"
 	"fmt"
 	"os"
@@ -10,6 +11,12 @@ import (
 	"strings"
 	"testing"
 	"time"
+
+	"golang.org/x/image/font/gofont/gobold"
+	"golang.org/x/image/font/gofont/goitalic"
+	"golang.org/x/image/font/gofont/gomono"
+	"golang.org/x/image/font/gofont/gomonobold"
+	"golang.org/x/image/font/gofont/goregular"
 
 	"chargeward/hazards"
 	"chargeward/rules"
@@ -79,7 +86,21 @@ func TestPDFText(t *testing.T) {
 }
 
 func TestPDFDeterministic(t *testing.T) {
+	// The embedded fonts must come out of a rendering unchanged, or the next rendering in the same process
+	// embeds a different subset (fpdf's subsetter writes into the bytes it is given).
+	fonts := [][]byte{goregular.TTF, gobold.TTF, goitalic.TTF, gomono.TTF, gomonobold.TTF}
+	var before [][32]byte
+	for _, f := range fonts {
+		before = append(before, sha256.Sum256(f))
+	}
 	r := fixtureReview(t, 12, "Bench demo thrower")
+	defer func() {
+		for i, f := range fonts {
+			if sha256.Sum256(f) != before[i] {
+				t.Errorf("font %d: its bytes changed during rendering, want them untouched", i)
+			}
+		}
+	}()
 	a, b := renderFixture(t, r), renderFixture(t, fixtureReview(t, 12, "Bench demo thrower"))
 	if !bytes.Equal(a, b) {
 		t.Errorf("two renderings of the same review differ (%d and %d bytes)", len(a), len(b))
