@@ -3,10 +3,12 @@ package hazards
 import (
 	"fmt"
 	"math"
+	"math/rand"
 	"testing"
 
 	"gonum.org/v1/gonum/floats/scalar"
 
+	"chargeward/internal/riggen"
 	"chargeward/schema"
 )
 
@@ -404,3 +406,77 @@ func TestDischargeBadInput(t *testing.T) {
 		t.Errorf("negative bleeder: got no error, want one")
 	}
 }
+
+// TestRandomRigProperties is a property test over generated rigs (internal/riggen; random test inputs, not
+// expected values): for every rig the electrical quantities satisfy W = ½CV², the single-fault time is never
+// shorter than the intact time, and raising the capacitance or the bleeder resistance never shortens the time
+// to safe (nor lowers the energy, for the capacitance).
+func TestRandomRigProperties(t *testing.T) {
+	rng := rand.New(rand.NewSource(3))
+	n := 150
+	if testing.Short() {
+		n = 30
+	}
+	var nTime, nBleeder int
+	defer func() {
+		t.Logf("%d rigs, %d with times to safe, %d with a bleeder resized", n, nTime, nBleeder)
+		if nTime == 0 || nBleeder == 0 {
+			t.Errorf("got %d rigs with times and %d with bleeders, want some of each (the generator changed?)", nTime, nBleeder)
+		}
+	}()
+	for i := range n {
+		text := riggen.Rig(rng, riggen.Options{})
+		load := func() *schema.Rig {
+			r, err := schema.LoadRig(fmt.Sprintf("gen-%d.yaml", i), []byte(text))
+			if err != nil {
+				t.Fatalf("rig %d: LoadRig: %v\n%s", i, err, text)
+			}
+			return r
+		}
+		r := load()
+		a, err := Assess(r, DefaultTargets())
+		if err != nil {
+			t.Fatalf("rig %d: Assess: %v\n%s", i, err, text)
+		}
+		c, okC := a.Q("bank.capacitance")
+		v, okV := a.Q("bank.voltage")
+		w, okW := a.Q("bank.energy")
+		if !okC || !okV || !okW {
+			continue
+		}
+		if !scalar.EqualWithinRel(w.Value, 0.5*c.Value*v.Value*v.Value, 1e-12) {
+			t.Errorf("rig %d: W = %g J, want ½CV² = %g J", i, w.Value, 0.5*c.Value*v.Value*v.Value)
+		}
+		ts, ok1 := a.Q("discharge.time_to_safe")
+		sf, ok2 := a.Q("discharge.time_to_safe_single_fault")
+		if !ok1 || !ok2 {
+			continue
+		}
+		if sf.Value < ts.Value || *sf.Worst < *ts.Worst {
+			t.Errorf("rig %d: single fault %g s (worst %g s) shorter than intact %g s (%g s)", i, sf.Value, *sf.Worst, ts.Value, *ts.Worst)
+		}
+		nTime++
+		more := load()
+		*more.Bank.Capacitance *= 1.5
+		am := elAssess(t, more)
+		if got := elQ(t, am, "discharge.time_to_safe"); below(got.Value, ts.Value) || below(*got.Worst, *ts.Worst) {
+			t.Errorf("rig %d: 1.5 × C gave %.17g s (worst %.17g s), want ≥ %.17g s (%.17g s)", i, got.Value, *got.Worst, ts.Value, *ts.Worst)
+		}
+		if got := elQ(t, am, "bank.energy"); got.Value < w.Value {
+			t.Errorf("rig %d: 1.5 × C gave %g J, want ≥ %g J", i, got.Value, w.Value)
+		}
+		if r.Bleeder != nil && r.Bleeder.Resistance != nil {
+			nBleeder++
+			big := load()
+			*big.Bleeder.Resistance *= 2
+			if got := elQ(t, elAssess(t, big), "discharge.time_to_safe"); below(got.Value, ts.Value) || below(*got.Worst, *ts.Worst) {
+				t.Errorf("rig %d: 2 × bleeder gave %g s, want ≥ %g s", i, got.Value, ts.Value)
+			}
+		}
+	}
+}
+
+// below reports whether got is below want by more than rounding: when only catalogue leakage discharges an
+// electrolytic bank its time constant (100 s per cell) does not depend on C at all, and the two figures then
+// differ in the last bits only; 1e-12 relative is many ulps and far below any physical change.
+func below(got, want float64) bool { return got < want*(1-1e-12) }
