@@ -9,3 +9,5 @@ require (
 	gonum.org/v1/gonum v0.17.0
 	gopkg.in/yaml.v3 v3.0.1
 )
+
+require github.com/expr-lang/expr v1.17.8

@@ -59,10 +59,10 @@ type Verdict int
 
 // Verdicts; the zero value is invalid.
 const (
-	VerdictInvalid Verdict = iota
-	Ready                  // "ready"
-	ReadyWithControls      // "ready with controls"
-	NotReady               // "not ready"
+	VerdictInvalid    Verdict = iota
+	Ready                     // "ready"
+	ReadyWithControls         // "ready with controls"
+	NotReady                  // "not ready"
 )
 
 func (v Verdict) String() string {

@@ -1,0 +1,224 @@
+package rules
+
+import (
+	"math"
+	"strings"
+
+	"chargeward/hazards"
+)
+
+// evalEnv is the environment one condition runs in. Every name of the namespace reaches it through the
+// typed getters below (the compiler rewrites names into getter calls), which record what was read and what
+// was absent. An absent value reads as the zero value, but the evaluator never judges a rule whose
+// condition read an absent value: it reports that the rule could not be checked.
+type evalEnv struct {
+	a        *hazards.Assessment
+	facts    map[string]any
+	sections map[string]bool
+	policy   *Policy
+	limits   map[string]float64
+	gap      *hazards.Gap
+
+	read    []string // names read, in order, without duplicates
+	missing []string // names read that were absent
+}
+
+// reset clears what was read, for the next expression.
+func (e *evalEnv) reset() {
+	e.read = e.read[:0]
+	e.missing = e.missing[:0]
+}
+
+func (e *evalEnv) note(path string, present bool) {
+	for _, r := range e.read {
+		if r == path {
+			return
+		}
+	}
+	e.read = append(e.read, path)
+	if !present {
+		e.missing = append(e.missing, path)
+	}
+}
+
+func (e *evalEnv) lookup(path string) (any, bool) {
+	switch {
+	case strings.HasPrefix(path, "rig."):
+		v, ok := e.facts[path]
+		return v, ok
+	case strings.HasPrefix(path, "policy."):
+		v, ok := e.policy.Value(strings.TrimPrefix(path, "policy."))
+		return v, ok
+	case strings.HasPrefix(path, "limit."):
+		v, ok := e.limits[path]
+		return v, ok
+	case path == "gap.field":
+		if e.gap == nil {
+			return nil, false
+		}
+		return e.gap.Field, true
+	case path == "gap.effect":
+		if e.gap == nil {
+			return nil, false
+		}
+		return e.gap.Effect, true
+	case strings.HasPrefix(path, "worst."):
+		if e.a == nil {
+			return nil, false
+		}
+		q, ok := e.a.Q(strings.TrimPrefix(path, "worst."))
+		if !ok {
+			return nil, false
+		}
+		if q.Worst != nil {
+			return *q.Worst, true
+		}
+		return q.Value, true
+	}
+	if e.a == nil {
+		return nil, false
+	}
+	q, ok := e.a.Q(path)
+	if !ok {
+		return nil, false
+	}
+	return q.Value, true
+}
+
+// Num returns a numeric name (SI). Called by compiled conditions only.
+func (e *evalEnv) Num(path string) float64 {
+	v, ok := e.lookup(path)
+	f, isNum := v.(float64)
+	e.note(path, ok && isNum)
+	return f
+}
+
+// Bool returns a boolean name. Called by compiled conditions only.
+func (e *evalEnv) Bool(path string) bool {
+	v, ok := e.lookup(path)
+	b, isBool := v.(bool)
+	e.note(path, ok && isBool)
+	return b
+}
+
+// Str returns a string name (an enumeration value). Called by compiled conditions only.
+func (e *evalEnv) Str(path string) string {
+	v, ok := e.lookup(path)
+	s, isStr := v.(string)
+	e.note(path, ok && isStr)
+	return s
+}
+
+// Stated reports whether a name or a section is present, without counting it as read.
+func (e *evalEnv) Stated(path string) bool {
+	if strings.HasPrefix(path, "rig.") && e.sections[path] {
+		return true
+	}
+	_, ok := e.lookup(path)
+	return ok
+}
+
+// newEnv prepares the environment for one assessment.
+func newEnv(a *hazards.Assessment, p *Policy) *evalEnv {
+	e := &evalEnv{a: a, policy: p}
+	if a != nil {
+		e.facts, e.sections = factValues(a.Rig)
+	} else {
+		e.facts, e.sections = factValues(nil)
+	}
+	e.limits = deriveLimits(e, p)
+	return e
+}
+
+// deriveLimits computes the limit.* names from the policy and the rig.
+func deriveLimits(e *evalEnv, p *Policy) map[string]float64 {
+	l := map[string]float64{}
+	val := func(k string) float64 { v, _ := p.Value(k); return v }
+
+	// Time allowed to reach the safe voltage, by voltage class (NEC 460.6(A) ≤ 1000 V, 460.28(A) above).
+	if v, ok := e.lookup("worst.bank.voltage"); ok {
+		if v.(float64) > val("residual.class_boundary") {
+			l["limit.time_allowed"] = val("residual.time_high")
+		} else {
+			l["limit.time_allowed"] = val("residual.time_low")
+		}
+	}
+	// Eye protection: the impact the declared protection is tested at.
+	if s, ok := e.facts["rig.controls.eye_protection"].(string); ok {
+		switch s {
+		case "none":
+			l["limit.eye_speed"], l["limit.eye_energy"] = 0, 0
+		case "spectacles":
+			l["limit.eye_speed"], l["limit.eye_energy"] = val("eye.spectacles_speed"), val("eye.spectacles_energy")
+		case "goggles":
+			l["limit.eye_speed"], l["limit.eye_energy"] = val("eye.goggles_speed"), val("eye.goggles_energy")
+		case "faceshield":
+			l["limit.eye_speed"], l["limit.eye_energy"] = val("eye.faceshield_speed"), val("eye.faceshield_energy")
+		}
+	}
+	if t, ok := e.facts["rig.coil.ambient_temperature"].(float64); ok {
+		l["limit.ambient"] = t
+	} else {
+		l["limit.ambient"] = val("ambient.reference")
+	}
+	def := func(name, fact string) {
+		if v, ok := e.facts[fact].(float64); ok {
+			l[name] = v
+		} else {
+			l[name] = 1
+		}
+	}
+	def("limit.cells_parallel", "rig.bank.parallel")
+	def("limit.cells_series", "rig.bank.series")
+	def("limit.bleeder_elements", "rig.bleeder.elements_in_series")
+	def("limit.bleeder_chains", "rig.bleeder.count")
+
+	// Launch tilt and the ballistic reach of a tilted launch, R = v² sin 2θ / g on flat ground without drag
+	// (an upper bound on the real range), unless the launch stage gives its own range.
+	if t, ok := e.facts["rig.room.tilt"].(float64); ok {
+		l["limit.tilt"] = t
+	} else {
+		l["limit.tilt"] = val("launch.default_tilt")
+	}
+	if r, ok := e.lookup("launch.range"); ok {
+		l["limit.projectile_range"] = r.(float64)
+	} else if v, ok := e.lookup("launch.speed"); ok {
+		const g = 9.80665 // m/s², standard gravity (CGPM 1901)
+		s := v.(float64)
+		l["limit.projectile_range"] = s * s * math.Sin(2*l["limit.tilt"]) / g
+	}
+
+	// Predicted decay for the measured decay: from the measured charge voltage (else the bank voltage) to
+	// the measured end voltage (else the safe voltage), t = τ ln(V0/V1), along the permanent paths
+	// (discharge.time_constant) or, when a dump is stated, through the dump (τ = R_dump·C), whichever is
+	// nearer the measurement; the rule then judges the disagreement.
+	if meas, ok := e.facts["rig.measurements.decay_time"].(float64); ok {
+		v0, ok0 := e.facts["rig.measurements.charge_voltage"].(float64)
+		if !ok0 {
+			if v, ok := e.lookup("bank.voltage"); ok {
+				v0, ok0 = v.(float64), true
+			}
+		}
+		v1, ok1 := e.facts["rig.measurements.decay_to"].(float64)
+		if !ok1 {
+			v1, ok1 = val("residual.safe_voltage"), true
+		}
+		if ok0 && ok1 && v0 > v1 && v1 > 0 {
+			var cands []float64
+			if tau, ok := e.lookup("discharge.time_constant"); ok {
+				cands = append(cands, tau.(float64)*math.Log(v0/v1))
+			}
+			rd, okR := e.facts["rig.dump.resistance"].(float64)
+			c, okC := e.lookup("bank.capacitance")
+			if okR && okC {
+				cands = append(cands, rd*c.(float64)*math.Log(v0/v1))
+			}
+			for i, t := range cands {
+				if i == 0 || math.Abs(t-meas) < math.Abs(l["limit.decay_predicted"]-meas) {
+					l["limit.decay_predicted"] = t
+				}
+			}
+		}
+	}
+	return l
+}

@@ -1,0 +1,325 @@
+package rules
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/expr-lang/expr/vm"
+	"gopkg.in/yaml.v3"
+)
+
+// Control is one checklist line a rule requires.
+type Control struct {
+	Phase    Phase  `json:"phase"`
+	Text     string `json:"text"`
+	Measured string `json:"measured,omitempty"` // a value to record, with its unit
+}
+
+// Rule is one compiled rule of the rulebook.
+type Rule struct {
+	ID          string      `json:"id"`
+	Hazard      string      `json:"hazard"`
+	Title       string      `json:"title"`
+	Severity    Severity    `json:"severity"`
+	Disposition Disposition `json:"disposition"`
+	Applies     string      `json:"applies,omitempty"` // condition under which the rule is relevant at all
+	When        string      `json:"when,omitempty"`    // condition under which it fires
+	Gaps        bool        `json:"gaps,omitempty"`    // fires once for each gap of the assessment
+	Message     string      `json:"message"`
+	Controls    []Control   `json:"controls,omitempty"`
+	Basis       string      `json:"basis"`
+	// UnknownSeverity and UnknownDisposition apply when the condition cannot be checked because an input is
+	// absent; by default the rule's own (missing information is never safe).
+	UnknownSeverity    Severity    `json:"unknown_severity"`
+	UnknownDisposition Disposition `json:"unknown_disposition"`
+	Origin             string      `json:"origin"` // file the rule came from
+
+	applies, when *vm.Program
+	message       []segment
+}
+
+// HazardClass is one hazard class, in the order findings are grouped.
+type HazardClass struct {
+	ID    string `json:"id"`
+	Title string `json:"title"`
+}
+
+// segment is literal text or one placeholder of a message template.
+type segment struct {
+	text string
+	prog *vm.Program
+	unit string
+}
+
+// DisabledRule is a default rule a site rulebook switched off, with its reason.
+type DisabledRule struct {
+	ID     string
+	Reason string
+	Origin string
+}
+
+type rulebookFile struct {
+	Hazards   []HazardClass `yaml:"hazards"`
+	Rules     []yaml.Node   `yaml:"rules"`
+	Checklist []yaml.Node   `yaml:"checklist"`
+	Disable   []struct {
+		ID     string `yaml:"id"`
+		Reason string `yaml:"reason"`
+	} `yaml:"disable"`
+}
+
+type ruleYAML struct {
+	ID          string    `yaml:"id"`
+	Hazard      string    `yaml:"hazard"`
+	Title       string    `yaml:"title"`
+	Severity    string    `yaml:"severity"`
+	Disposition string    `yaml:"disposition"`
+	Applies     yaml.Node `yaml:"applies"`
+	When        yaml.Node `yaml:"when"`
+	Gaps        bool      `yaml:"gaps"`
+	Message     yaml.Node `yaml:"message"`
+	Controls    []struct {
+		Phase    string `yaml:"phase"`
+		Text     string `yaml:"text"`
+		Measured string `yaml:"measured"`
+	} `yaml:"controls"`
+	Basis   string `yaml:"basis"`
+	Unknown struct {
+		Severity    string `yaml:"severity"`
+		Disposition string `yaml:"disposition"`
+	} `yaml:"unknown"`
+}
+
+func parseSeverity(s string) Severity {
+	switch s {
+	case "DANGER":
+		return Danger
+	case "WARNING":
+		return Warning
+	case "CAUTION":
+		return Caution
+	case "NOTICE":
+		return Notice
+	}
+	return SeverityInvalid
+}
+
+func parseDisposition(s string) Disposition {
+	switch s {
+	case "must-fix":
+		return MustFix
+	case "controls":
+		return Controls
+	case "advisory":
+		return Advisory
+	}
+	return DispositionInvalid
+}
+
+func parsePhase(s string) Phase {
+	switch s {
+	case "set-up":
+		return SetUp
+	case "charging and firing":
+		return Firing
+	case "after firing and shutdown":
+		return AfterFiring
+	case "storage":
+		return Storage
+	}
+	return PhaseInvalid
+}
+
+// ParseSeverityOrDisposition reads a --fail-on value: a severity word (any case) or a disposition.
+func ParseSeverityOrDisposition(s string) (Severity, Disposition, bool) {
+	if sv := parseSeverity(strings.ToUpper(s)); sv != SeverityInvalid {
+		return sv, DispositionInvalid, true
+	}
+	if d := parseDisposition(strings.ToLower(s)); d != DispositionInvalid {
+		return SeverityInvalid, d, true
+	}
+	return SeverityInvalid, DispositionInvalid, false
+}
+
+// ruleCompiler compiles the rules of one file.
+type ruleCompiler struct {
+	name string
+	raw  []string
+	ns   *namespace
+	ds   Diagnostics
+}
+
+func (c *ruleCompiler) diag(n *yaml.Node, code, summary, detail string) {
+	line, col := 0, 0
+	if n != nil {
+		line, col = n.Line, n.Column
+	}
+	c.ds = append(c.ds, Diagnostic{File: c.name, Line: line, Column: col, Code: code, Summary: summary, Detail: detail})
+}
+
+func nodeStyle(n *yaml.Node) string {
+	switch {
+	case n.Style&yaml.LiteralStyle != 0:
+		return "literal"
+	case n.Style&yaml.FoldedStyle != 0:
+		return "folded"
+	case n.Style&(yaml.DoubleQuotedStyle|yaml.SingleQuotedStyle) != 0:
+		return "quoted"
+	}
+	return "plain"
+}
+
+func (c *ruleCompiler) exprDiags(n *yaml.Node, errs []posErr, base int) {
+	for _, e := range errs {
+		line, col := scalarPosition(c.raw, n.Line, n.Column, nodeStyle(n), n.Value, base+e.offset)
+		c.ds = append(c.ds, Diagnostic{File: c.name, Line: line, Column: col, Code: e.code, Summary: e.msg, Detail: e.detail})
+	}
+}
+
+// compileRule turns one rule node into a Rule, or records diagnostics.
+func (c *ruleCompiler) compileRule(node *yaml.Node) *Rule {
+	var ry ruleYAML
+	if err := node.Decode(&ry); err != nil {
+		c.diag(node, CodeSchema, err.Error(), "")
+		return nil
+	}
+	r := &Rule{ID: ry.ID, Hazard: ry.Hazard, Title: ry.Title, Severity: parseSeverity(ry.Severity), Disposition: parseDisposition(ry.Disposition),
+		Gaps: ry.Gaps, Message: ry.Message.Value, Basis: strings.TrimSpace(ry.Basis), Origin: c.name,
+		Applies: strings.TrimSpace(ry.Applies.Value), When: strings.TrimSpace(ry.When.Value)}
+	if r.Basis == "" {
+		n, k := nodeAt(node, "/basis")
+		if k == nil {
+			n, _ = nodeAt(node, "/id")
+		}
+		c.diag(n, CodeBasis, fmt.Sprintf("rule %s has no basis", r.ID), "state the published source with its clause, \"common practice\" or \"from memory\"; a rule without a basis does not load")
+		return nil
+	}
+	r.UnknownSeverity, r.UnknownDisposition = r.Severity, r.Disposition
+	if ry.Unknown.Severity != "" {
+		r.UnknownSeverity = parseSeverity(ry.Unknown.Severity)
+	}
+	if ry.Unknown.Disposition != "" {
+		r.UnknownDisposition = parseDisposition(ry.Unknown.Disposition)
+	}
+	for _, ctl := range ry.Controls {
+		r.Controls = append(r.Controls, Control{Phase: parsePhase(ctl.Phase), Text: strings.TrimSpace(ctl.Text), Measured: ctl.Measured})
+	}
+	ok := true
+	if r.Applies != "" {
+		prog, errs := compileExpr(c.ns, ry.Applies.Value, true)
+		c.exprDiags(&ry.Applies, errs, 0)
+		ok = ok && errs == nil
+		r.applies = prog
+	}
+	switch {
+	case r.Gaps && r.When != "":
+		c.diag(&ry.When, CodeSchema, fmt.Sprintf("rule %s: a gaps rule has no condition", r.ID), "remove 'when' or 'gaps'")
+		ok = false
+	case !r.Gaps && r.When == "":
+		n, _ := nodeAt(node, "/id")
+		c.diag(n, CodeSchema, fmt.Sprintf("rule %s has no condition", r.ID), "add 'when: CONDITION' (or 'gaps: true' for the missing-information rule)")
+		ok = false
+	case !r.Gaps:
+		prog, errs := compileExpr(c.ns, ry.When.Value, true)
+		c.exprDiags(&ry.When, errs, 0)
+		ok = ok && errs == nil
+		r.when = prog
+	}
+	segs, good := c.compileTemplate(&ry.Message)
+	r.message = segs
+	if !ok || !good {
+		return nil
+	}
+	return r
+}
+
+// compileTemplate splits a message into text and {placeholder} segments; a placeholder is an expression,
+// optionally followed by "| UNIT" to say how to show a computed number.
+func (c *ruleCompiler) compileTemplate(n *yaml.Node) ([]segment, bool) {
+	s := n.Value
+	var segs []segment
+	good := true
+	runes := []rune(s)
+	i := 0
+	for i < len(runes) {
+		j := indexRune(runes, '{', i)
+		if j < 0 {
+			segs = append(segs, segment{text: string(runes[i:])})
+			break
+		}
+		if j > i {
+			segs = append(segs, segment{text: string(runes[i:j])})
+		}
+		k := indexRune(runes, '}', j)
+		if k < 0 {
+			c.exprDiags(n, []posErr{{offset: j, code: CodeExpr, msg: "unclosed '{' in message", detail: "placeholders are written {NAME} or {EXPRESSION | UNIT}"}}, 0)
+			return nil, false
+		}
+		body := string(runes[j+1 : k])
+		unit := ""
+		if b := strings.LastIndex(body, "|"); b >= 0 && !strings.Contains(body[b:], "||") && (b == 0 || body[b-1] != '|') {
+			unit = strings.TrimSpace(body[b+1:])
+			body = body[:b]
+		}
+		prog, errs := compileExpr(c.ns, body, false)
+		if errs != nil {
+			c.exprDiags(n, errs, j+1)
+			good = false
+		}
+		if unit == "" {
+			if info, ok := c.ns.leaves[strings.TrimSpace(body)]; ok {
+				unit = info.unit
+			}
+		}
+		segs = append(segs, segment{prog: prog, unit: unit})
+		i = k + 1
+	}
+	return segs, good
+}
+
+func indexRune(r []rune, c rune, from int) int {
+	for i := from; i < len(r); i++ {
+		if r[i] == c {
+			return i
+		}
+	}
+	return -1
+}
+
+// render fills a template in env.
+func render(segs []segment, env *evalEnv) string {
+	var b strings.Builder
+	for _, s := range segs {
+		if s.prog == nil {
+			b.WriteString(s.text)
+			continue
+		}
+		saved := append([]string(nil), env.read...)
+		savedMissing := append([]string(nil), env.missing...)
+		env.reset()
+		out, err := vm.Run(s.prog, env)
+		absent := len(env.missing) > 0
+		env.read, env.missing = saved, savedMissing
+		if err != nil || absent {
+			b.WriteString("(not stated)")
+			continue
+		}
+		switch v := out.(type) {
+		case float64:
+			b.WriteString(FormatQuantity(v, s.unit))
+		case int:
+			b.WriteString(FormatQuantity(float64(v), s.unit))
+		case bool:
+			if v {
+				b.WriteString("yes")
+			} else {
+				b.WriteString("no")
+			}
+		case string:
+			b.WriteString(v)
+		default:
+			fmt.Fprint(&b, v)
+		}
+	}
+	return strings.Join(strings.Fields(b.String()), " ")
+}
