@@ -2,59 +2,33 @@ package rules
 
 import (
 	"fmt"
-	"strings"
+
+	"chargeward/schema"
 )
 
-// Diagnostic is one problem found while loading a rulebook or a policy, with its position in the file.
-// It follows the project's diagnostic model (stable code, summary, detail with the fix, 1-based line and
-// column); when package schema's model is available the loader converts to it.
-type Diagnostic struct {
-	File    string // file name as given; "<default rulebook>" or "<default policy>" for the embedded files
-	Line    int    // 1-based; 0 when the problem concerns the whole file
-	Column  int    // 1-based
-	Code    string // stable code, e.g. "rules.unknown-name"
-	Summary string // terse statement of the problem
-	Detail  string // how to fix it
-}
+// Diagnostic and Diagnostics are the project's one diagnostic model (package schema): rulebook and policy
+// problems are reported exactly like rig problems, with file, line and column.
+type (
+	Diagnostic  = schema.Diagnostic
+	Diagnostics = schema.Diagnostics
+)
 
-func (d Diagnostic) String() string {
-	var b strings.Builder
-	b.WriteString(d.File)
-	if d.Line > 0 {
-		fmt.Fprintf(&b, ":%d:%d", d.Line, d.Column)
-	}
-	fmt.Fprintf(&b, ": error[%s]: %s", d.Code, d.Summary)
-	if d.Detail != "" {
-		b.WriteString("\n    ")
-		b.WriteString(d.Detail)
-	}
-	return b.String()
-}
-
-// Diagnostics is every problem found in one load; a non-empty slice is the error Load returns.
-type Diagnostics []Diagnostic
-
-func (ds Diagnostics) Error() string {
-	s := make([]string, len(ds))
-	for i, d := range ds {
-		s[i] = d.String()
-	}
-	return strings.Join(s, "\n")
-}
-
-// Diagnostic codes.
+// Diagnostic codes of the rulebook and policy loaders (YAML-* and SCHEMA-* come from package schema).
 const (
-	CodeParse       = "rules.parse"        // the file is not valid YAML, or has more than one document
-	CodeSchema      = "rules.schema"       // the file does not match its JSON Schema
-	CodeExpr        = "rules.expression"   // a condition or message placeholder does not compile
-	CodeUnknownName = "rules.unknown-name" // a condition names a quantity, rig field or policy key that does not exist
-	CodeDuplicate   = "rules.duplicate"    // a rule id or policy key given twice
-	CodeUnknownRule = "rules.unknown-rule" // a site rulebook disables a rule that does not exist
-	CodeUnknownKey  = "policy.unknown-key" // a site policy overrides a key the reference policy does not have
-	CodeUnit        = "policy.unit"        // a site value's unit differs from the reference unit
-	CodeBasis       = "rules.basis"        // a rule or policy entry has no basis
-	CodeTooLarge    = "rules.too-large"    // the file is over the size limit
+	CodeExpr        = "RULE-EXPR"      // a condition or message placeholder does not compile
+	CodeUnknownName = "RULE-NAME"      // a condition names a quantity, rig field or policy key that does not exist
+	CodeDuplicate   = "RULE-DUPLICATE" // a rule id given twice
+	CodeUnknownRule = "RULE-UNKNOWN"   // a site rulebook disables a rule that does not exist
+	CodeHazard      = "RULE-HAZARD"    // a rule names a hazard class the rulebook does not define
+	CodeRuleSchema  = "RULE-SCHEMA"    // a rule is structurally incomplete (no condition, both condition and gaps)
+	CodeBasis       = "RULE-BASIS"     // a rule or policy entry has no basis
+	CodeUnknownKey  = "POLICY-KEY"     // a site policy overrides a key the reference policy does not have
+	CodeUnit        = "POLICY-UNIT"    // a site value's unit differs from the reference unit, or does not parse
 )
+
+func errAt(file string, line, col int, code, summary, detail string) Diagnostic {
+	return Diagnostic{Severity: schema.SeverityError, Code: code, Summary: summary, Detail: detail, File: file, Line: line, Column: col}
+}
 
 // suggest returns ` (did you mean "x"?)` for the closest candidate within edit distance 3, or "".
 func suggest(s string, candidates []string) string {

@@ -188,35 +188,19 @@ func deriveLimits(e *evalEnv, p *Policy) map[string]float64 {
 		l["limit.projectile_range"] = s * s * math.Sin(2*l["limit.tilt"]) / g
 	}
 
-	// Predicted decay for the measured decay: from the measured charge voltage (else the bank voltage) to
-	// the measured end voltage (else the safe voltage), t = τ ln(V0/V1), along the permanent paths
-	// (discharge.time_constant) or, when a dump is stated, through the dump (τ = R_dump·C), whichever is
-	// nearer the measurement; the rule then judges the disagreement.
+	// Predicted decay for the measured decay (from the measured charge voltage to the measured end voltage):
+	// the physics gives it along the permanent paths (discharge.decay_time_predicted) and through the dump
+	// (dump.decay_time_predicted); the measurement is compared with the nearer of the two, since the rig
+	// does not say which path was timed.
 	if meas, ok := e.facts["rig.measurements.decay_time"].(float64); ok {
-		v0, ok0 := e.facts["rig.measurements.charge_voltage"].(float64)
-		if !ok0 {
-			if v, ok := e.lookup("bank.voltage"); ok {
-				v0, ok0 = v.(float64), true
-			}
-		}
-		v1, ok1 := e.facts["rig.measurements.decay_to"].(float64)
-		if !ok1 {
-			v1, ok1 = val("residual.safe_voltage"), true
-		}
-		if ok0 && ok1 && v0 > v1 && v1 > 0 {
-			var cands []float64
-			if tau, ok := e.lookup("discharge.time_constant"); ok {
-				cands = append(cands, tau.(float64)*math.Log(v0/v1))
-			}
-			rd, okR := e.facts["rig.dump.resistance"].(float64)
-			c, okC := e.lookup("bank.capacitance")
-			if okR && okC {
-				cands = append(cands, rd*c.(float64)*math.Log(v0/v1))
-			}
-			for i, t := range cands {
-				if i == 0 || math.Abs(t-meas) < math.Abs(l["limit.decay_predicted"]-meas) {
+		first := true
+		for _, n := range []string{"discharge.decay_time_predicted", "dump.decay_time_predicted"} {
+			if v, ok := e.lookup(n); ok {
+				t := v.(float64)
+				if first || math.Abs(t-meas) < math.Abs(l["limit.decay_predicted"]-meas) {
 					l["limit.decay_predicted"] = t
 				}
+				first = false
 			}
 		}
 	}

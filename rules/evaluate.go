@@ -52,9 +52,15 @@ func (s *Set) Evaluate(a *hazards.Assessment) (rv *Review, err error) {
 		read := append([]string(nil), env.read...)
 		missing := append([]string(nil), env.missing...)
 		if len(missing) > 0 {
+			if r.UnknownQuiet {
+				continue
+			}
 			f := s.unknownFinding(r, missing, read)
 			for _, m := range missing {
 				named[strings.TrimPrefix(m, "rig.")] = true
+			}
+			for _, c := range r.Covers {
+				named[c] = true
 			}
 			findings = append(findings, f)
 			continue
@@ -65,6 +71,9 @@ func (s *Set) Evaluate(a *hazards.Assessment) (rv *Review, err error) {
 		f := s.finding(r, read)
 		f.Message = render(r.message, env)
 		findings = append(findings, f)
+		for _, c := range r.Covers {
+			named[c] = true
+		}
 	}
 	if gapRule != nil {
 		for _, g := range a.Gaps {
@@ -138,8 +147,16 @@ func (s *Set) unknownFinding(r *Rule, missing, read []string) Finding {
 		switch {
 		case strings.HasPrefix(m, "rig."):
 			facts = append(facts, strings.TrimPrefix(m, "rig."))
+		case m == "limit.eye_speed" || m == "limit.eye_energy":
+			if !contains(facts, "controls.eye_protection") {
+				facts = append(facts, "controls.eye_protection")
+			}
+		case m == "limit.projectile_range":
+			qs = append(qs, "launch.speed")
+		case m == "limit.decay_predicted":
+			qs = append(qs, "discharge.decay_time_predicted")
 		case strings.HasPrefix(m, "limit."):
-			facts = append(facts, limitSource(m))
+			qs = append(qs, m)
 		default:
 			q := strings.TrimPrefix(m, "worst.")
 			if !contains(qs, q) {
@@ -159,15 +176,6 @@ func (s *Set) unknownFinding(r *Rule, missing, read []string) Finding {
 	return f
 }
 
-func limitSource(m string) string {
-	switch m {
-	case "limit.eye_speed", "limit.eye_energy":
-		return "controls.eye_protection"
-	case "limit.time_allowed":
-		return "the bank voltage"
-	}
-	return m
-}
 
 func verdict(fs []Finding) Verdict {
 	v := Ready

@@ -78,6 +78,9 @@ func sig3(v float64) string {
 		return strconv.FormatFloat(v, 'g', 3, 64)
 	}
 	r := roundSig(v, 3)
+	if r == math.Trunc(r) && v == math.Trunc(v) {
+		return strconv.FormatFloat(r, 'f', 0, 64) // a whole number (a count, a stated rating) as written
+	}
 	digits := 3 - int(math.Floor(math.Log10(math.Abs(r)))) - 1
 	if digits < 0 {
 		digits = 0

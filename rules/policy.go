@@ -4,8 +4,11 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strings"
 
 	"gopkg.in/yaml.v3"
+
+	"chargeward/schema"
 )
 
 // PolicyEntry is one threshold of the policy.
@@ -53,12 +56,35 @@ type policyFile struct {
 }
 
 type policyItem struct {
-	Value      float64 `yaml:"value"`
-	Unit       string  `yaml:"unit"`
-	Basis      string  `yaml:"basis"`
-	Confidence string  `yaml:"confidence"`
-	Stricter   string  `yaml:"stricter"`
-	Note       string  `yaml:"note"`
+	Value      yaml.Node `yaml:"value"`
+	Unit       string    `yaml:"unit"`
+	Basis      string    `yaml:"basis"`
+	Confidence string    `yaml:"confidence"`
+	Stricter   string    `yaml:"stricter"`
+	Note       string    `yaml:"note"`
+}
+
+// itemValue reads an entry's value: a number in the entry's SI unit, or a string with a unit ("30 V",
+// "2 min") read by schema.ParseQuantity against that unit.
+func itemValue(name, key string, it *policyItem) (float64, *Diagnostic) {
+	n := &it.Value
+	var v float64
+	if n.Tag == "!!str" {
+		x, err := schema.ParseQuantity(n.Value, it.Unit)
+		if err != nil {
+			d := errAt(name, n.Line, n.Column, CodeUnit, fmt.Sprintf("%s: %v", key, err), fmt.Sprintf("give a number in %s, or a value with a unit of that dimension", it.Unit))
+			return 0, &d
+		}
+		v = x
+	} else if err := n.Decode(&v); err != nil {
+		d := errAt(name, n.Line, n.Column, CodeRuleSchema, fmt.Sprintf("%s: value is not a number", key), "give a number in the entry's SI unit")
+		return 0, &d
+	}
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		d := errAt(name, n.Line, n.Column, CodeRuleSchema, fmt.Sprintf("%s: value is not a finite number", key), "give a finite number in the entry's SI unit")
+		return 0, &d
+	}
+	return v, nil
 }
 
 // parsePolicy reads a policy file already validated against its schema. reference is nil for the
@@ -66,7 +92,7 @@ type policyItem struct {
 func parsePolicy(name string, root *yaml.Node, reference *Policy) (*Policy, Diagnostics) {
 	var pf policyFile
 	if err := root.Decode(&pf); err != nil {
-		return nil, Diagnostics{{File: name, Line: root.Line, Column: root.Column, Code: CodeSchema, Summary: err.Error()}}
+		return nil, Diagnostics{errAt(name, root.Line, root.Column, CodeRuleSchema, err.Error(), "")}
 	}
 	p := &Policy{entries: map[string]*PolicyEntry{}}
 	if reference != nil {
@@ -81,37 +107,42 @@ func parsePolicy(name string, root *yaml.Node, reference *Policy) (*Policy, Diag
 		k, v := th.Content[i], th.Content[i+1]
 		var it policyItem
 		if err := v.Decode(&it); err != nil {
-			ds = append(ds, Diagnostic{File: name, Line: v.Line, Column: v.Column, Code: CodeSchema, Summary: err.Error()})
+			ds = append(ds, errAt(name, v.Line, v.Column, CodeRuleSchema, err.Error(), ""))
 			continue
 		}
-		valNode, _ := nodeAt(v, "/value")
-		if math.IsNaN(it.Value) || math.IsInf(it.Value, 0) {
-			ds = append(ds, Diagnostic{File: name, Line: valNode.Line, Column: valNode.Column, Code: CodeSchema, Summary: fmt.Sprintf("%s: value is not a finite number", k.Value), Detail: "give a finite number in the entry's SI unit"})
-			continue
-		}
-		if it.Basis == "" {
-			ds = append(ds, Diagnostic{File: name, Line: k.Line, Column: k.Column, Code: CodeBasis, Summary: fmt.Sprintf("%s has no basis", k.Value), Detail: "state the published source with its clause, \"common practice\" or \"from memory\""})
+		if strings.TrimSpace(it.Basis) == "" {
+			ds = append(ds, errAt(name, k.Line, k.Column, CodeBasis, fmt.Sprintf("%s has no basis", k.Value), "state the published source with its clause, \"common practice\" or \"from memory\""))
 			continue
 		}
 		if reference == nil {
-			p.entries[k.Value] = &PolicyEntry{Key: k.Value, Value: it.Value, Unit: it.Unit, Basis: it.Basis, Confidence: it.Confidence, Stricter: it.Stricter, Note: it.Note, Reference: it.Value}
+			val, d := itemValue(name, k.Value, &it)
+			if d != nil {
+				ds = append(ds, *d)
+				continue
+			}
+			p.entries[k.Value] = &PolicyEntry{Key: k.Value, Value: val, Unit: it.Unit, Basis: it.Basis, Confidence: it.Confidence, Stricter: it.Stricter, Note: it.Note, Reference: val}
 			continue
 		}
 		ref, ok := reference.entries[k.Value]
 		if !ok {
-			ds = append(ds, Diagnostic{File: name, Line: k.Line, Column: k.Column, Code: CodeUnknownKey, Summary: fmt.Sprintf("the reference policy has no threshold %q%s", k.Value, suggest(k.Value, sortedKeys(reference.entries))), Detail: "a site policy overrides existing keys; list them with 'chargeward rules --policy'"})
+			ds = append(ds, errAt(name, k.Line, k.Column, CodeUnknownKey, fmt.Sprintf("the reference policy has no threshold %q%s", k.Value, suggest(k.Value, sortedKeys(reference.entries))), "a site policy overrides existing keys; list them with 'chargeward rules --policy'"))
 			continue
 		}
 		if it.Unit != ref.Unit {
 			un, _ := nodeAt(v, "/unit")
-			ds = append(ds, Diagnostic{File: name, Line: un.Line, Column: un.Column, Code: CodeUnit, Summary: fmt.Sprintf("%s: unit %q, the reference unit is %q", k.Value, it.Unit, ref.Unit), Detail: "give the value in the reference unit (SI)"})
+			ds = append(ds, errAt(name, un.Line, un.Column, CodeUnit, fmt.Sprintf("%s: unit %q, the reference unit is %q", k.Value, it.Unit, ref.Unit), "give the unit as the reference policy does (SI); a string value may carry a prefix, \"30 V\""))
+			continue
+		}
+		val, d := itemValue(name, k.Value, &it)
+		if d != nil {
+			ds = append(ds, *d)
 			continue
 		}
 		conf := it.Confidence
 		if conf == "" {
 			conf = "site"
 		}
-		p.entries[k.Value] = &PolicyEntry{Key: k.Value, Value: it.Value, Unit: ref.Unit, Basis: it.Basis, Confidence: conf, Stricter: ref.Stricter, Note: it.Note,
+		p.entries[k.Value] = &PolicyEntry{Key: k.Value, Value: val, Unit: ref.Unit, Basis: it.Basis, Confidence: conf, Stricter: ref.Stricter, Note: it.Note,
 			Reference: ref.Reference, ReferenceBasis: ref.Basis, Overridden: true}
 	}
 	if len(ds) > 0 {

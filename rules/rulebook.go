@@ -25,14 +25,18 @@ type Rule struct {
 	Applies     string      `json:"applies,omitempty"` // condition under which the rule is relevant at all
 	When        string      `json:"when,omitempty"`    // condition under which it fires
 	Gaps        bool        `json:"gaps,omitempty"`    // fires once for each gap of the assessment
-	Message     string      `json:"message"`
-	Controls    []Control   `json:"controls,omitempty"`
-	Basis       string      `json:"basis"`
+	// Covers lists gap fields this rule's finding already reports; such gaps get no finding of their own.
+	Covers   []string  `json:"covers,omitempty"`
+	Message  string    `json:"message"`
+	Controls []Control `json:"controls,omitempty"`
+	Basis    string    `json:"basis"`
 	// UnknownSeverity and UnknownDisposition apply when the condition cannot be checked because an input is
 	// absent; by default the rule's own (missing information is never safe).
 	UnknownSeverity    Severity    `json:"unknown_severity"`
 	UnknownDisposition Disposition `json:"unknown_disposition"`
-	Origin             string      `json:"origin"` // file the rule came from
+	// UnknownQuiet: report nothing when the rule cannot be checked (a companion rule reports it).
+	UnknownQuiet bool   `json:"unknown_quiet,omitempty"`
+	Origin       string `json:"origin"` // file the rule came from
 
 	applies, when *vm.Program
 	message       []segment
@@ -77,6 +81,7 @@ type ruleYAML struct {
 	Applies     yaml.Node `yaml:"applies"`
 	When        yaml.Node `yaml:"when"`
 	Gaps        bool      `yaml:"gaps"`
+	Covers      []string  `yaml:"covers"`
 	Message     yaml.Node `yaml:"message"`
 	Controls    []struct {
 		Phase    string `yaml:"phase"`
@@ -87,6 +92,7 @@ type ruleYAML struct {
 	Unknown struct {
 		Severity    string `yaml:"severity"`
 		Disposition string `yaml:"disposition"`
+		Quiet       bool   `yaml:"quiet"`
 	} `yaml:"unknown"`
 }
 
@@ -154,7 +160,7 @@ func (c *ruleCompiler) diag(n *yaml.Node, code, summary, detail string) {
 	if n != nil {
 		line, col = n.Line, n.Column
 	}
-	c.ds = append(c.ds, Diagnostic{File: c.name, Line: line, Column: col, Code: code, Summary: summary, Detail: detail})
+	c.ds = append(c.ds, errAt(c.name, line, col, code, summary, detail))
 }
 
 func nodeStyle(n *yaml.Node) string {
@@ -172,7 +178,7 @@ func nodeStyle(n *yaml.Node) string {
 func (c *ruleCompiler) exprDiags(n *yaml.Node, errs []posErr, base int) {
 	for _, e := range errs {
 		line, col := scalarPosition(c.raw, n.Line, n.Column, nodeStyle(n), n.Value, base+e.offset)
-		c.ds = append(c.ds, Diagnostic{File: c.name, Line: line, Column: col, Code: e.code, Summary: e.msg, Detail: e.detail})
+		c.ds = append(c.ds, errAt(c.name, line, col, e.code, e.msg, e.detail))
 	}
 }
 
@@ -180,11 +186,11 @@ func (c *ruleCompiler) exprDiags(n *yaml.Node, errs []posErr, base int) {
 func (c *ruleCompiler) compileRule(node *yaml.Node) *Rule {
 	var ry ruleYAML
 	if err := node.Decode(&ry); err != nil {
-		c.diag(node, CodeSchema, err.Error(), "")
+		c.diag(node, CodeRuleSchema, err.Error(), "")
 		return nil
 	}
 	r := &Rule{ID: ry.ID, Hazard: ry.Hazard, Title: ry.Title, Severity: parseSeverity(ry.Severity), Disposition: parseDisposition(ry.Disposition),
-		Gaps: ry.Gaps, Message: ry.Message.Value, Basis: strings.TrimSpace(ry.Basis), Origin: c.name,
+		Gaps: ry.Gaps, Covers: ry.Covers, Message: ry.Message.Value, Basis: strings.TrimSpace(ry.Basis), Origin: c.name,
 		Applies: strings.TrimSpace(ry.Applies.Value), When: strings.TrimSpace(ry.When.Value)}
 	if r.Basis == "" {
 		n, k := nodeAt(node, "/basis")
@@ -198,6 +204,7 @@ func (c *ruleCompiler) compileRule(node *yaml.Node) *Rule {
 	if ry.Unknown.Severity != "" {
 		r.UnknownSeverity = parseSeverity(ry.Unknown.Severity)
 	}
+	r.UnknownQuiet = ry.Unknown.Quiet
 	if ry.Unknown.Disposition != "" {
 		r.UnknownDisposition = parseDisposition(ry.Unknown.Disposition)
 	}
@@ -213,11 +220,11 @@ func (c *ruleCompiler) compileRule(node *yaml.Node) *Rule {
 	}
 	switch {
 	case r.Gaps && r.When != "":
-		c.diag(&ry.When, CodeSchema, fmt.Sprintf("rule %s: a gaps rule has no condition", r.ID), "remove 'when' or 'gaps'")
+		c.diag(&ry.When, CodeRuleSchema, fmt.Sprintf("rule %s: a gaps rule has no condition", r.ID), "remove 'when' or 'gaps'")
 		ok = false
 	case !r.Gaps && r.When == "":
 		n, _ := nodeAt(node, "/id")
-		c.diag(n, CodeSchema, fmt.Sprintf("rule %s has no condition", r.ID), "add 'when: CONDITION' (or 'gaps: true' for the missing-information rule)")
+		c.diag(n, CodeRuleSchema, fmt.Sprintf("rule %s has no condition", r.ID), "add 'when: CONDITION' (or 'gaps: true' for the missing-information rule)")
 		ok = false
 	case !r.Gaps:
 		prog, errs := compileExpr(c.ns, ry.When.Value, true)

@@ -7,9 +7,6 @@ import (
 	"encoding/json"
 	"fmt"
 	"strings"
-	"sync"
-
-	"github.com/santhosh-tekuri/jsonschema/v5"
 
 	"chargeward/hazards"
 )
@@ -32,22 +29,11 @@ const (
 	DefaultPolicyName   = "<default policy>"
 )
 
-var (
-	schemaOnce                 sync.Once
-	rulebookSchema, policySchm *jsonschema.Schema
-	schemaErr                  error
+// Schema identifiers.
+const (
+	RulebookSchemaID = "https://chargeward.example/schema/rulebook.schema.json"
+	PolicySchemaID   = "https://chargeward.example/schema/policy.schema.json"
 )
-
-func schemas() (*jsonschema.Schema, *jsonschema.Schema, error) {
-	schemaOnce.Do(func() {
-		rulebookSchema, schemaErr = compileSchema("chargeward:rulebook.schema.json", RulebookSchema)
-		if schemaErr != nil {
-			return
-		}
-		policySchm, schemaErr = compileSchema("chargeward:policy.schema.json", PolicySchema)
-	})
-	return rulebookSchema, policySchm, schemaErr
-}
 
 // Set is a compiled rulebook and policy, ready to evaluate assessments. It is safe for concurrent use.
 type Set struct {
@@ -68,15 +54,8 @@ func Default() (*Set, error) { return Load("", nil, "", nil) }
 // disabled by id, checklist items). Nil data means no site file. Every problem found is returned together
 // as Diagnostics with file, line and column.
 func Load(policyName string, policyData []byte, rulesName string, rulesData []byte) (*Set, error) {
-	rs, ps, err := schemas()
-	if err != nil {
-		return nil, fmt.Errorf("rules: embedded schema: %w", err)
-	}
 	// Policy: the default, then the site's overrides.
-	root, ds := readYAML(DefaultPolicyName, defaultPolicy)
-	if ds == nil {
-		ds = validateNode(DefaultPolicyName, ps, root)
-	}
+	root, ds := readFile(DefaultPolicyName, defaultPolicy, PolicySchemaID, PolicySchema)
 	if ds != nil {
 		return nil, ds
 	}
@@ -89,10 +68,7 @@ func Load(policyName string, policyData []byte, rulesName string, rulesData []by
 		if policyName == "" {
 			policyName = "<site policy>"
 		}
-		root, ds := readYAML(policyName, policyData)
-		if ds == nil {
-			ds = validateNode(policyName, ps, root)
-		}
+		root, ds := readFile(policyName, policyData, PolicySchemaID, PolicySchema)
 		if ds == nil {
 			var site *Policy
 			site, ds = parsePolicy(policyName, root, pol)
@@ -105,14 +81,14 @@ func Load(policyName string, policyData []byte, rulesName string, rulesData []by
 	s := &Set{policy: pol}
 	ns := newNamespace(pol)
 
-	if ds := s.addRulebook(DefaultRulebookName, defaultRulebook, rs, ns, false); ds != nil {
+	if ds := s.addRulebook(DefaultRulebookName, defaultRulebook, ns, false); ds != nil {
 		return nil, ds // the embedded rulebook is tested; a failure here is a build defect
 	}
 	if rulesData != nil {
 		if rulesName == "" {
 			rulesName = "<site rulebook>"
 		}
-		all = append(all, s.addRulebook(rulesName, rulesData, rs, ns, true)...)
+		all = append(all, s.addRulebook(rulesName, rulesData, ns, true)...)
 	}
 	if len(all) > 0 {
 		return nil, all
@@ -122,22 +98,19 @@ func Load(policyName string, policyData []byte, rulesName string, rulesData []by
 }
 
 // addRulebook reads one rulebook file into the set.
-func (s *Set) addRulebook(name string, data []byte, sch *jsonschema.Schema, ns *namespace, site bool) Diagnostics {
-	root, ds := readYAML(name, data)
-	if ds == nil {
-		ds = validateNode(name, sch, root)
-	}
+func (s *Set) addRulebook(name string, data []byte, ns *namespace, site bool) Diagnostics {
+	root, ds := readFile(name, data, RulebookSchemaID, RulebookSchema)
 	if ds != nil {
 		return ds
 	}
 	var rf rulebookFile
 	if err := root.Decode(&rf); err != nil {
-		return Diagnostics{{File: name, Line: root.Line, Column: root.Column, Code: CodeSchema, Summary: err.Error()}}
+		return Diagnostics{errAt(name, root.Line, root.Column, CodeRuleSchema, err.Error(), "")}
 	}
 	c := &ruleCompiler{name: name, raw: strings.Split(string(data), "\n"), ns: ns}
 	if site && len(rf.Hazards) > 0 {
 		n, _ := nodeAt(root, "/hazards")
-		c.diag(n, CodeSchema, "a site rulebook cannot define hazard classes", "use one of the classes listed by 'chargeward rules'")
+		c.diag(n, CodeHazard, "a site rulebook cannot define hazard classes", "use one of the classes listed by 'chargeward rules'")
 	}
 	if !site {
 		s.hazards = rf.Hazards
@@ -175,7 +148,7 @@ func (s *Set) addRulebook(name string, data []byte, sch *jsonschema.Schema, ns *
 			continue
 		}
 		if hn, _ := nodeAt(node, "/hazard"); !known[hn.Value] {
-			c.diag(hn, CodeSchema, fmt.Sprintf("unknown hazard class %q%s", hn.Value, suggest(hn.Value, sortedKeys(known))), "use one of the classes listed by 'chargeward rules'")
+			c.diag(hn, CodeHazard, fmt.Sprintf("unknown hazard class %q%s", hn.Value, suggest(hn.Value, sortedKeys(known))), "use one of the classes listed by 'chargeward rules'")
 			continue
 		}
 		ids[id] = true
@@ -190,7 +163,7 @@ func (s *Set) addRulebook(name string, data []byte, sch *jsonschema.Schema, ns *
 			Measured string `yaml:"measured"`
 		}
 		if err := rf.Checklist[i].Decode(&it); err != nil {
-			c.diag(&rf.Checklist[i], CodeSchema, err.Error(), "")
+			c.diag(&rf.Checklist[i], CodeRuleSchema, err.Error(), "")
 			continue
 		}
 		s.checklist = append(s.checklist, ChecklistItem{Phase: parsePhase(it.Phase), Text: strings.TrimSpace(it.Text), Measured: it.Measured})

@@ -1,27 +1,53 @@
 package main
 
 import (
+	"bytes"
+	"encoding/json"
 	"fmt"
 	"io"
+	"strconv"
 	"strings"
 
+	"chargeward/hazards"
 	"chargeward/report"
+	"chargeward/rules"
 	"chargeward/schema"
 )
 
-var checkCommand = command{name: "check", summary: "validate rig descriptions and summarise them", run: runCheck}
+var checkCommand = command{name: "check", summary: "validate rigs, compute their hazards and judge them against the rulebook", run: runCheck}
 
 const checkUsage = `Usage: chargeward check [options] RIG...
 
-Reads each rig description (a YAML file, or - for standard input), validates it against the rig schema and
-prints a short summary. Every problem in a file is reported at its line and column.
+Reads each rig description (a YAML file, or - for standard input), validates it against the rig schema,
+computes the hazard physics and judges it against the rulebook and the threshold policy (the embedded
+defaults, changed by --policy and --rules site files). For one rig it prints the verdict, the findings
+grouped by hazard class with their numbers and basis, and the key quantities; for several rigs one summary
+line each.
 
-Exit status: 0 when every rig is valid, 2 on bad input (nothing is printed on standard output for a rig
-that does not load).
+Exit status: 0 when no finding reaches --fail-on, 1 when one does (for several rigs, the worst of them),
+2 on bad input or a state the models cannot handle (nothing is printed on standard output for a rig that
+does not load).
+
+This tool is an engineering aid. It does not replace local codes, your institution's electrical safety
+program, or the judgement of qualified, licensed persons.
 `
+
+// checkOptions are the flags of the check command.
+type checkOptions struct {
+	format     string
+	failOnSev  rules.Severity
+	failOnDisp rules.Disposition
+	never      bool
+	set        *rules.Set
+	many       bool
+}
 
 func runCheck(args []string, e *env) error {
 	fs := newFlags("check", checkUsage, e)
+	format := fs.String("format", "text", "output format: text or json")
+	policyFile := fs.String("policy", "", "site policy `FILE` overriding thresholds by key")
+	rulesFile := fs.String("rules", "", "site rulebook `FILE` adding or disabling rules by id")
+	failOn := fs.String("fail-on", "controls", "exit 1 when a finding reaches this severity (NOTICE, CAUTION, WARNING, DANGER) or disposition (advisory, controls, must-fix); never: only bad input fails")
 	if done, err := parseFlags(fs, args, e); done {
 		return err
 	}
@@ -30,10 +56,48 @@ func runCheck(args []string, e *env) error {
 		fs.Usage()
 		return exitError{exitBadInput}
 	}
+	o := checkOptions{format: *format, many: fs.NArg() > 1}
+	if o.format != "text" && o.format != "json" {
+		fmt.Fprintf(e.stderr, "chargeward check: --format takes text or json, not %q\n", o.format)
+		return exitError{exitBadInput}
+	}
+	if *failOn == "never" {
+		o.never = true
+	} else {
+		var ok bool
+		o.failOnSev, o.failOnDisp, ok = rules.ParseSeverityOrDisposition(*failOn)
+		if !ok {
+			fmt.Fprintf(e.stderr, "chargeward check: --fail-on takes a severity (NOTICE, CAUTION, WARNING, DANGER), a disposition (advisory, controls, must-fix) or never, not %q\n", *failOn)
+			return exitError{exitBadInput}
+		}
+	}
+	set, err := loadRuleSet(*policyFile, *rulesFile, e)
+	if err != nil {
+		return err
+	}
+	o.set = set
 	worst := exitOK
+	var docs []json.RawMessage
 	for _, name := range fs.Args() {
-		if err := checkOne(name, e); err != nil {
+		rv, err := checkOne(name, e, o)
+		if err != nil {
 			worst = max(worst, code(err, e.stderr))
+			continue
+		}
+		if o.many && o.format == "json" {
+			var b bytes.Buffer
+			if err := report.JSON(&b, rv, report.Options{Version: Version}); err != nil {
+				return err
+			}
+			docs = append(docs, json.RawMessage(b.Bytes()))
+		}
+		if o.reaches(rv) {
+			worst = max(worst, exitFindings)
+		}
+	}
+	if len(docs) > 0 {
+		if err := writeJSON(e.stdout, docs); err != nil {
+			return err
 		}
 	}
 	if worst != exitOK {
@@ -42,14 +106,77 @@ func runCheck(args []string, e *env) error {
 	return nil
 }
 
-// checkOne runs the stages for one rig: load → assess → evaluate → render. Assessment (hazards.Assess) and
-// evaluation (rules.Evaluate) slot in between loading and rendering.
-func checkOne(name string, e *env) error {
+// reaches reports whether any finding of the review is at or above --fail-on.
+func (o checkOptions) reaches(rv *rules.Review) bool {
+	if o.never {
+		return false
+	}
+	for _, f := range rv.Findings {
+		if (o.failOnSev != rules.SeverityInvalid && f.Severity >= o.failOnSev) ||
+			(o.failOnDisp != rules.DispositionInvalid && f.Disposition >= o.failOnDisp) {
+			return true
+		}
+	}
+	return false
+}
+
+// checkOne runs the stages for one rig: load → assess → evaluate → render.
+func checkOne(name string, e *env, o checkOptions) (*rules.Review, error) {
 	rig, err := loadRig(name, e)
 	if err != nil {
-		return err
+		return nil, err
 	}
-	return renderRigSummary(e.stdout, name, rig)
+	rv, err := judge(rig, o.set)
+	if err != nil {
+		fmt.Fprintf(e.stderr, "%s: %v\n", name, err)
+		return nil, exitError{exitBadInput}
+	}
+	switch {
+	case o.many && o.format == "json":
+		return rv, nil // written together by runCheck
+	case o.many:
+		bySev, _ := rv.Counts()
+		fmt.Fprintf(e.stdout, "%s: %s — %s (%s; %d DANGER, %d WARNING, %d CAUTION, %d NOTICE)\n", name, strings.ToUpper(rv.Verdict.String()),
+			orUnnamed(rig.Rig.Name), plural(len(rv.Findings), "finding"), bySev[rules.Danger], bySev[rules.Warning], bySev[rules.Caution], bySev[rules.Notice])
+		return rv, nil
+	case o.format == "json":
+		return rv, report.JSON(e.stdout, rv, report.Options{Version: Version})
+	}
+	if err := renderRigSummary(e.stdout, name, rig); err != nil {
+		return nil, err
+	}
+	fmt.Fprintln(e.stdout)
+	return rv, report.Text(e.stdout, rv, report.Options{Version: Version})
+}
+
+// judge computes a rig's hazards against the policy's targets and evaluates the rulebook. The time allowed to
+// reach the safe voltage depends on the bank's voltage class, known only after the bank is computed: a rig
+// above the class boundary is assessed again with its own targets.
+func judge(rig *schema.Rig, set *rules.Set) (*rules.Review, error) {
+	t := set.Targets()
+	a, err := hazards.Assess(rig, t)
+	if err != nil {
+		return nil, err
+	}
+	if q, ok := a.Q("bank.voltage"); ok {
+		v := q.Value
+		if q.Worst != nil {
+			v = *q.Worst
+		}
+		if t2 := set.TargetsFor(v); t2.TimeAllowed != t.TimeAllowed {
+			if a, err = hazards.Assess(rig, t2); err != nil {
+				return nil, err
+			}
+		}
+	}
+	return set.Evaluate(a)
+}
+
+func orUnnamed(s string) string {
+	if s == "" {
+		return "unnamed rig"
+	}
+	return strconv.Quote(s)
 }
 
 // renderRigSummary prints what was loaded: identification, the bank, and which sections are stated.
