@@ -176,7 +176,6 @@ func (s *Set) unknownFinding(r *Rule, missing, read []string) Finding {
 	return f
 }
 
-
 func verdict(fs []Finding) Verdict {
 	v := Ready
 	for _, f := range fs {

@@ -36,13 +36,21 @@ var ruleCases = []ruleCase{
 	{"DIS-03", func(f *fixture) { failSafeDump(f, 1e6) }, func(f *fixture) { failSafeDump(f, 10) }},
 	{"DIS-04", func(f *fixture) { f.rig.Bleeder = nil }, func(f *fixture) { f.rig.Bleeder = nil; failSafeDump(f, 10) }},
 	{"DIS-05", func(f *fixture) { f.shockClass(); f.set("discharge.time_to_safe_single_fault", 100) }, func(f *fixture) { f.shockClass() }},
-	{"DIS-11", func(f *fixture) { f.shockClass(); delete(f.q, "discharge.time_to_safe_single_fault"); f.rig.Bleeder.Count = iptr(1) },
+	{"DIS-11", func(f *fixture) {
+		f.shockClass()
+		delete(f.q, "discharge.time_to_safe_single_fault")
+		f.rig.Bleeder.Count = iptr(1)
+	},
 		func(f *fixture) { f.shockClass(); delete(f.q, "discharge.time_to_safe_single_fault") }},
 	{"DIS-06", func(f *fixture) { f.rig.Controls.Discharge = "screwdriver" }, nil},
 	{"DIS-06", func(f *fixture) { f.rig.Controls.Discharge = "touch" }, func(f *fixture) { f.rig.Controls.Discharge = "shorting-stick" }},
 	{"DIS-07", func(f *fixture) { f.rig.Controls.Discharge = "none" }, nil},
 	{"DIS-08", func(f *fixture) { f.shockClass(); f.rig.Controls.GroundingHook = bptr(false) },
-		func(f *fixture) { f.shockClass(); f.rig.Controls.GroundingHook = bptr(false); f.rig.Controls.Discharge = "shorting-stick" }},
+		func(f *fixture) {
+			f.shockClass()
+			f.rig.Controls.GroundingHook = bptr(false)
+			f.rig.Controls.Discharge = "shorting-stick"
+		}},
 	{"DIS-09", func(f *fixture) { f.set("bank.voltage", 300); f.rig.Controls.VerifyBeforeTouch = bptr(false) }, func(f *fixture) { f.set("bank.voltage", 300) }},
 	// NFPA 79 §6.5.1: τ·ln(300/60) = 60 s · 1.61 = 97 s > 5 s.
 	{"DIS-10", func(f *fixture) { f.set("bank.voltage", 300); f.set("discharge.time_constant", 60) }, func(f *fixture) { f.set("bank.voltage", 300); f.set("discharge.time_constant", 2) }},
@@ -96,7 +104,11 @@ var ruleCases = []ruleCase{
 	// 29 CFR 1910.95: 140 dB peak.
 	{"NOI-01", func(f *fixture) { f.set("noise.peak_spl", 150) }, func(f *fixture) { f.set("noise.peak_spl", 130) }},
 	{"NOI-02", func(f *fixture) { f.set("bank.energy", 100); f.rig.Controls.HearingProtection = bptr(false) },
-		func(f *fixture) { f.set("bank.energy", 100); f.set("noise.peak_spl", 120); f.rig.Controls.HearingProtection = bptr(false) }},
+		func(f *fixture) {
+			f.set("bank.energy", 100)
+			f.set("noise.peak_spl", 120)
+			f.rig.Controls.HearingProtection = bptr(false)
+		}},
 	{"GRD-01", func(f *fixture) { f.set("bank.energy", 50); f.rig.Controls.Enclosure = "none" }, func(f *fixture) { f.rig.Controls.Enclosure = "none"; f.set("bank.energy", 5) }},
 	{"GRD-02", func(f *fixture) { f.set("bank.energy", 50); f.rig.Controls.Enclosure = "partial" }, func(f *fixture) { f.set("bank.energy", 50) }},
 	{"GRD-03", func(f *fixture) { f.set("bank.energy", 200); f.rig.Controls.Interlock = bptr(false) }, func(f *fixture) { f.set("bank.energy", 50); f.rig.Controls.Interlock = bptr(false) }},
@@ -115,7 +127,9 @@ var ruleCases = []ruleCase{
 	{"INF-01", func(f *fixture) { f.rig.Bleeder = nil; failSafeDump(f, 10) }, nil},
 	{"INF-02", func(f *fixture) { f.rig.Switch = nil }, nil},
 	{"INF-03", func(f *fixture) { f.rig.Projectile = nil; f.rig.Controls.EyeProtection = "" }, func(f *fixture) { f.rig.Projectile = nil }},
-	{"INF-04", func(f *fixture) { f.gaps = append(f.gaps, hazards.Gap{Field: "bank.esr", Effect: "the pulse cannot be computed"}) }, nil},
+	{"INF-04", func(f *fixture) {
+		f.gaps = append(f.gaps, hazards.Gap{Field: "bank.esr", Effect: "the pulse cannot be computed"})
+	}, nil},
 }
 
 func failSafeDump(f *fixture, ohms float64) {
