@@ -148,8 +148,7 @@ func filamentInductance(fil []Filament, wr float64) (float64, error) {
 func assessCoil(a *Assessment) error {
 	c := a.Rig.Coil
 	if c == nil {
-		switch a.Rig.Rig.Kind {
-		case "disc-thrower", "ring-jumper", "magnetizer", "coil-accelerator":
+		if coilRequired(a.Rig.Rig.Kind) {
 			a.AddGap("coil", "no coil is described: its inductance, resistance and heating, and the pulse through it, cannot be computed")
 		}
 		return nil
@@ -319,6 +318,15 @@ func assessCoil(a *Assessment) error {
 		a.m.coil = cm
 	}
 	return nil
+}
+
+// coilRequired reports whether a rig of this kind works through a coil.
+func coilRequired(kind string) bool {
+	switch kind {
+	case "disc-thrower", "ring-jumper", "magnetizer", "coil-accelerator":
+		return true
+	}
+	return false
 }
 
 // coilWinding builds the winding from the rig's coil for wire outer diameter dw (m), or returns nil with

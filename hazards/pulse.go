@@ -781,7 +781,7 @@ func assessPulse(a *Assessment) error {
 	if bm == nil || !(bm.C > 0 && bm.V > 0) {
 		return nil // the bank stage has recorded why
 	}
-	if a.Rig.Coil != nil && a.m.coil == nil {
+	if a.m.coil == nil && (a.Rig.Coil != nil || coilRequired(a.Rig.Rig.Kind)) {
 		return nil // the coil stage has recorded why
 	}
 	lp := buildLoop(a)
