@@ -35,8 +35,8 @@ func Decode(name string, root *yaml.Node, target any, opt DecodeOptions, pos map
 		d.pos = map[string]Pos{}
 	}
 	rv := reflect.ValueOf(target)
-	if rv.Kind() != reflect.Pointer || rv.Elem().Kind() != reflect.Struct {
-		panic("schema.Decode: target must be a pointer to a struct") // a program error, not an input error
+	if rv.Kind() != reflect.Pointer || rv.IsNil() || rv.Elem().Kind() != reflect.Struct {
+		return Diagnostics{{Severity: SeverityError, Code: "INTERNAL", Summary: fmt.Sprintf("schema.Decode needs a pointer to a struct, got %T", target), File: name, Line: 1, Column: 1}}
 	}
 	d.decodeStruct(root, nil, rv.Elem(), "", "")
 	return d.diags
@@ -182,7 +182,7 @@ func (d *decoder) decodeStruct(n, key *yaml.Node, sv reflect.Value, path, patter
 		f := t.Field(idx)
 		fp, fpat := join(path, k.Value), join(pattern, k.Value)
 		d.pos[fp] = Pos{k.Line, k.Column}
-		d.decodeField(v, k, sv.Field(idx), f, fp, fpat)
+		d.decodeField(v, k, sv.Field(idx), f.Tag, fp, fpat)
 	}
 	for i := 0; i < t.NumField(); i++ {
 		k := yamlKey(t.Field(i))
@@ -220,8 +220,9 @@ func (d *decoder) unknownKey(k *yaml.Node, t reflect.Type, path string) string {
 	return Suggest(k.Value, keys)
 }
 
-// decodeField fills one field from its value node.
-func (d *decoder) decodeField(v, key *yaml.Node, fv reflect.Value, f reflect.StructField, path, pattern string) {
+// decodeField fills one field from its value node. tag is the field's struct tag (for a list element or
+// a map value, the tag of the list or map field).
+func (d *decoder) decodeField(v, key *yaml.Node, fv reflect.Value, tag reflect.StructTag, path, pattern string) {
 	v = resolve(v)
 	if v == nil {
 		return
@@ -231,15 +232,17 @@ func (d *decoder) decodeField(v, key *yaml.Node, fv reflect.Value, f reflect.Str
 			"Give a value, or remove the key when it is not known (a missing value is reported as a finding, never assumed safe).")
 		return
 	}
-	ft := f.Type
+	ft := fv.Type()
+	base := ft
+	if base.Kind() == reflect.Pointer {
+		base = base.Elem()
+	}
 	switch {
-	case ft.Kind() == reflect.Struct:
-		d.decodeStruct(v, key, fv, path, pattern)
-	case ft.Kind() == reflect.Pointer && ft.Elem().Kind() == reflect.Struct:
-		nv := reflect.New(ft.Elem())
+	case base.Kind() == reflect.Struct:
+		nv := reflect.New(base)
 		d.decodeStruct(v, key, nv.Elem(), path, pattern)
-		fv.Set(nv)
-	case ft.Kind() == reflect.Slice && ft.Elem().Kind() == reflect.Struct:
+		store(fv, nv.Elem())
+	case ft.Kind() == reflect.Slice:
 		if v.Kind != yaml.SequenceNode {
 			d.add(v, "FIELD-TYPE", path, fmt.Sprintf("%q must be a list, got %s", path, describeKind(v)),
 				"Write each entry on its own line starting with '- ', or '[]' for none.")
@@ -251,18 +254,47 @@ func (d *decoder) decodeField(v, key *yaml.Node, fv reflect.Value, f reflect.Str
 			if r := resolve(el); r != nil {
 				d.pos[ep] = Pos{r.Line, r.Column}
 			}
-			d.decodeStruct(el, nil, sl.Index(i), ep, pattern+"[]")
+			d.decodeField(el, nil, sl.Index(i), tag, ep, pattern+"[]")
 		}
 		fv.Set(sl)
+	case ft.Kind() == reflect.Map && ft.Key().Kind() == reflect.String:
+		if v.Kind != yaml.MappingNode {
+			d.add(v, "FIELD-TYPE", path, fmt.Sprintf("%q must be a mapping, got %s", path, describeKind(v)), "Write one 'name: value' per line, indented under the key.")
+			return
+		}
+		m := reflect.MakeMapWithSize(ft, len(v.Content)/2)
+		for i := 0; i+1 < len(v.Content); i += 2 {
+			k := resolve(v.Content[i])
+			if k == nil || k.Kind != yaml.ScalarNode || k.Tag == "!!merge" {
+				continue
+			}
+			ep := join(path, k.Value)
+			d.pos[ep] = Pos{k.Line, k.Column}
+			ev := reflect.New(ft.Elem()).Elem()
+			d.decodeField(v.Content[i+1], k, ev, tag, ep, pattern+"[]")
+			m.SetMapIndex(reflect.ValueOf(k.Value).Convert(ft.Key()), ev)
+		}
+		fv.Set(m)
 	default:
-		d.decodeScalar(v, fv, f, path, pattern)
+		d.decodeScalar(v, fv, tag, path, pattern)
 	}
 	if r := resolve(v); r != nil && r.Kind == yaml.ScalarNode {
 		d.pos[path] = Pos{r.Line, r.Column}
 	}
 }
 
-func (d *decoder) decodeScalar(v *yaml.Node, fv reflect.Value, f reflect.StructField, path, pattern string) {
+// store sets fv (a value or a pointer to one) to x.
+func store(fv reflect.Value, x reflect.Value) {
+	if fv.Kind() == reflect.Pointer {
+		p := reflect.New(fv.Type().Elem())
+		p.Elem().Set(x.Convert(fv.Type().Elem()))
+		fv.Set(p)
+		return
+	}
+	fv.Set(x.Convert(fv.Type()))
+}
+
+func (d *decoder) decodeScalar(v *yaml.Node, fv reflect.Value, tag reflect.StructTag, path, pattern string) {
 	if v.Kind != yaml.ScalarNode {
 		d.add(v, "FIELD-TYPE", path, fmt.Sprintf("%q takes a single value, got %s", path, describeKind(v)), "Write the value on the same line as the key.")
 		return
@@ -274,42 +306,40 @@ func (d *decoder) decodeScalar(v *yaml.Node, fv reflect.Value, f reflect.StructF
 	}
 	if hook := d.opt.Hooks[pattern]; hook != nil {
 		if val, ok := hook(v.Value); ok {
-			target := fv
-			if fv.Kind() == reflect.Pointer {
-				target = reflect.New(fv.Type().Elem())
-				fv.Set(target)
-				target = target.Elem()
-			}
-			target.Set(reflect.ValueOf(val).Convert(target.Type()))
+			store(fv, reflect.ValueOf(val))
 			return
 		}
 	}
-	ft := f.Type
-	switch {
-	case ft.Kind() == reflect.String:
-		d.decodeString(v, fv, f, path, pattern)
-	case ft.Kind() == reflect.Pointer && ft.Elem().Kind() == reflect.Float64:
-		d.decodeQuantity(v, fv, f.Tag.Get("unit"), path, pattern)
-	case ft.Kind() == reflect.Pointer && ft.Elem().Kind() == reflect.Int:
+	base := fv.Type()
+	if base.Kind() == reflect.Pointer {
+		base = base.Elem()
+	}
+	switch base.Kind() {
+	case reflect.String:
+		d.decodeString(v, fv, tag, path, pattern)
+	case reflect.Float64:
+		d.decodeQuantity(v, fv, tag.Get("unit"), path, pattern)
+	case reflect.Int:
 		d.decodeCount(v, fv, path, pattern)
-	case ft.Kind() == reflect.Pointer && ft.Elem().Kind() == reflect.Bool:
+	case reflect.Bool:
 		d.decodeBool(v, fv, path)
 	default:
-		panic(fmt.Sprintf("schema.Decode: field %s has unsupported type %s", f.Name, ft)) // program error
+		// A program error (a model field of a type the decoder does not know), reported rather than panicking.
+		d.add(v, "INTERNAL", path, fmt.Sprintf("%q has Go type %s, which the decoder does not support", path, fv.Type()), "This is a defect in chargeward; please report it.")
 	}
 }
 
-func (d *decoder) decodeString(v *yaml.Node, fv reflect.Value, f reflect.StructField, path, pattern string) {
+func (d *decoder) decodeString(v *yaml.Node, fv reflect.Value, tag reflect.StructTag, path, pattern string) {
 	s := v.Value
 	if v.Tag == "!!bool" {
 		d.add(v, "FIELD-TYPE", path, fmt.Sprintf("%q takes text, got %s", path, describeKind(v)), fmt.Sprintf("Quote the value if it is meant as text: \"%s\".", s))
 		return
 	}
-	if enum := f.Tag.Get("enum"); enum != "" {
+	if enum := tag.Get("enum"); enum != "" {
 		opts := strings.Split(enum, "|")
 		for _, o := range opts {
 			if s == o {
-				fv.SetString(s)
+				store(fv, reflect.ValueOf(s))
 				return
 			}
 		}
@@ -325,7 +355,7 @@ func (d *decoder) decodeString(v *yaml.Node, fv reflect.Value, f reflect.StructF
 		d.add(v, "FIELD-REQUIRED", path, fmt.Sprintf("%q must not be empty", path), "Write the text; a review needs it to identify the rig.")
 		return
 	}
-	fv.SetString(s)
+	store(fv, reflect.ValueOf(s))
 }
 
 // quantityColumn places a quantity error: the node column, plus the offset into the text (and the quote).
@@ -363,7 +393,7 @@ func (d *decoder) decodeQuantity(v *yaml.Node, fv reflect.Value, unit, path, pat
 			"Check the value and its sign; remove the key if it is not known.")
 		return
 	}
-	fv.Set(reflect.ValueOf(&x))
+	store(fv, reflect.ValueOf(x))
 }
 
 func (d *decoder) rangeOK(x float64, pattern string) (string, bool) {
@@ -388,14 +418,14 @@ func (d *decoder) decodeCount(v *yaml.Node, fv reflect.Value, path, pattern stri
 		d.add(v, "FIELD-RANGE", path, fmt.Sprintf("%s: %d %s", path, n, msg), "Write a count of at least 1; remove the key if it is not known.")
 		return
 	}
-	fv.Set(reflect.ValueOf(&n))
+	store(fv, reflect.ValueOf(n))
 }
 
 func (d *decoder) decodeBool(v *yaml.Node, fv reflect.Value, path string) {
 	if v.Tag == "!!bool" {
 		var b bool
 		if err := v.Decode(&b); err == nil {
-			fv.Set(reflect.ValueOf(&b))
+			store(fv, reflect.ValueOf(b))
 			return
 		}
 	}

@@ -30,19 +30,16 @@ const RigSchemaID = "https://chargeward.example/schema/rig.schema.json"
 var (
 	rigSchemaOnce sync.Once
 	rigSchema     *jsonschema.Schema
+	rigSchemaErr  error
 )
 
-// RigSchema returns the compiled rig schema. The embedded schema is tested to compile, so a failure here is
-// a build defect and panics.
-func RigSchema() *jsonschema.Schema {
+// RigSchema returns the compiled rig schema, compiled once. The embedded schema is tested to compile, so an
+// error here is a build defect.
+func RigSchema() (*jsonschema.Schema, error) {
 	rigSchemaOnce.Do(func() {
-		s, err := CompileSchema(RigSchemaID, RigSchemaJSON)
-		if err != nil {
-			panic("schema: embedded rig schema does not compile: " + err.Error())
-		}
-		rigSchema = s
+		rigSchema, rigSchemaErr = CompileSchema(RigSchemaID, RigSchemaJSON)
 	})
-	return rigSchema
+	return rigSchema, rigSchemaErr
 }
 
 // CompileSchema compiles a draft 2020-12 JSON Schema held in memory (the policy and rulebook loaders use it
@@ -297,7 +294,8 @@ func (g *schemaGen) field(f reflect.StructField, p string) map[string]any {
 		}
 		return s
 	}
-	panic(fmt.Sprintf("schema: field %s has unsupported type %s", p, f.Type)) // program error
+	g.missing = append(g.missing, p+" (unsupported Go type "+f.Type.String()+")")
+	return map[string]any{}
 }
 
 func unitLabel(unit string) string {

@@ -59,7 +59,13 @@ func RigDecodeOptions() DecodeOptions {
 // LoadRig reads a rig description. name is the file name for messages ("-" for standard input). On any
 // problem it returns a nil rig and a Diagnostics error listing every problem found, each at its line and
 // column. The rig's values are in SI units; a value not stated in the file is nil.
-func LoadRig(name string, data []byte) (*Rig, error) {
+func LoadRig(name string, data []byte) (rig *Rig, err error) {
+	defer func() {
+		if r := recover(); r != nil { // defence in depth: a defect must not take the caller down
+			rig, err = nil, Diagnostics{{Severity: SeverityError, Code: "INTERNAL", Summary: fmt.Sprintf("loader failure: %v", r),
+				Detail: "This is a defect in chargeward; please report it with the file.", File: name, Line: 1, Column: 1}}
+		}
+	}()
 	root, diags := ReadYAML(name, data)
 	if root == nil {
 		return nil, diags
@@ -72,7 +78,12 @@ func LoadRig(name string, data []byte) (*Rig, error) {
 	if !diags.HasErrors() {
 		// The JSON Schema is the contract editors see; the decoder above enforces the same rules with better
 		// messages, so the schema only speaks when they have drifted apart.
-		diags = append(diags, ValidateNode(name, root, RigSchema())...)
+		compiled, err := RigSchema()
+		if err != nil {
+			return nil, Diagnostics{{Severity: SeverityError, Code: "INTERNAL", Summary: "the embedded rig schema does not compile: " + err.Error(),
+				Detail: "This is a defect in chargeward; please report it.", File: name, Line: 1, Column: 1}}
+		}
+		diags = append(diags, ValidateNode(name, root, compiled)...)
 	}
 	if diags.HasErrors() {
 		sortDiags(diags)

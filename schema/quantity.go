@@ -69,6 +69,7 @@ var dimensions = map[string][]unitSym{
 		{sym: "µm²", exp: -12}, {sym: "um²", exp: -12}},
 	"Ω·m":   {{sym: "Ωm", prefixed: true}, {sym: "Ωcm", exp: -2, prefixed: true}, {sym: "Ωmm²/m", exp: -6, prefixed: true}},
 	"kg/m³": {{sym: "kg/m³"}, {sym: "g/cm³", exp: 3}, {sym: "g/m³", exp: -3}},
+	"":      {}, // a plain number without a unit (for a field with no unit tag)
 	"rad":   {{sym: "rad", prefixed: true}, {sym: "°", mult: math.Pi / 180}, {sym: "deg", mult: math.Pi / 180}},
 }
 
@@ -78,7 +79,7 @@ var dimensionNames = map[string]string{
 	"s": "a time", "m": "a length", "kg": "a mass", "J": "an energy", "W": "a power", "Hz": "a frequency",
 	"T": "a flux density", "K": "a temperature", "1": "a fraction", "A²s": "an action integral (I²t)",
 	"A/s": "a rate of rise of current", "m/s": "a speed", "VA": "an apparent power", "m²": "an area",
-	"Ω·m": "a resistivity", "kg/m³": "a density", "rad": "an angle",
+	"Ω·m": "a resistivity", "kg/m³": "a density", "rad": "an angle", "": "a plain number",
 }
 
 // examples gives one typical value per dimension for the fix-it text.
@@ -86,7 +87,7 @@ var examples = map[string]string{
 	"F": "2200 uF", "V": "450 V", "A": "3.2 kA", "Ω": "10 kΩ", "H": "1.2 mH", "s": "10 ms", "m": "118 mm",
 	"kg": "12 g", "J": "150 J", "W": "5 W", "Hz": "50 Hz", "T": "0.5 mT", "K": "155 °C", "1": "10 %",
 	"A²s": "51 kA²s", "A/s": "150 A/us", "m/s": "4 m/s", "VA": "250 VA", "m²": "6 mm²", "Ω·m": "2.8e-8 Ω·m",
-	"kg/m³": "2700 kg/m³", "rad": "5 deg",
+	"kg/m³": "2700 kg/m³", "rad": "5 deg", "": "0.5",
 }
 
 // Units lists the dimension names ParseQuantity accepts as its unit argument.

@@ -84,8 +84,8 @@ func TestSchemaIsValidJSONSchema(t *testing.T) {
 	if err := meta.Validate(doc); err != nil {
 		t.Errorf("got %v, want the schema valid under its meta-schema", err)
 	}
-	if RigSchema() == nil {
-		t.Errorf("got nil compiled schema")
+	if s, err := RigSchema(); s == nil || err != nil {
+		t.Errorf("got compiled schema %v, error %v; want it compiled", s, err)
 	}
 }
 
@@ -99,7 +99,11 @@ func TestSchemaValidatesDemoRigs(t *testing.T) {
 			if len(ds) > 0 {
 				t.Fatalf("got %v", ds)
 			}
-			if ds := ValidateNode(name, root, RigSchema()); len(ds) > 0 {
+			compiled, err := RigSchema()
+			if err != nil {
+				t.Fatal(err)
+			}
+			if ds := ValidateNode(name, root, compiled); len(ds) > 0 {
 				t.Errorf("got schema violations %v, want none", ds)
 			}
 		})
