@@ -387,30 +387,39 @@ func axisTitle(label, unit, prefixed string) string {
 	return label + " (" + prefixed + ")"
 }
 
-// ticks returns tick values at a 1-2-5 step covering [lo, hi] with four to ten intervals.
+// ticks returns tick values at a 1-2-2.5-5 step covering [lo, hi] with four to eight intervals, choosing
+// the step whose ticks waste the least of the axis (ties: the coarser step).
 func ticks(lo, hi float64) []float64 {
 	if !(hi > lo) {
 		hi = lo + 1
 	}
-	raw := (hi - lo) / 6
-	mag := math.Pow(10, math.Floor(math.Log10(raw)))
-	step := mag * 10
-	for _, m := range []float64{1, 2, 2.5, 5, 10} {
-		if m*mag >= raw {
-			step = m * mag
-			break
+	mag := math.Pow(10, math.Floor(math.Log10((hi-lo)/6)))
+	best, bestSpan := 0.0, math.Inf(1)
+	for _, m := range []float64{0.5, 1, 2, 2.5, 5, 10, 20} {
+		step := m * mag
+		n := math.Ceil(hi/step-1e-9) - math.Floor(lo/step+1e-9)
+		if n < 4 || n > 8 {
+			continue
+		}
+		if span := n * step; span < bestSpan*(1-1e-9) {
+			best, bestSpan = step, span
+		} else if span <= bestSpan*(1+1e-9) {
+			best = step
 		}
 	}
-	start := math.Floor(lo/step+1e-9) * step
-	end := math.Ceil(hi/step-1e-9) * step
+	if best == 0 {
+		best = mag * 2
+	}
+	start := math.Floor(lo/best+1e-9) * best
+	end := math.Ceil(hi/best-1e-9) * best
 	var out []float64
 	for i := 0; ; i++ {
-		v := start + float64(i)*step
-		if math.Abs(v) < step*1e-9 {
+		v := start + float64(i)*best
+		if math.Abs(v) < best*1e-9 {
 			v = 0
 		}
 		out = append(out, v)
-		if v >= end-step*1e-9 || i > 20 {
+		if v >= end-best*1e-9 || i > 20 {
 			break
 		}
 	}
