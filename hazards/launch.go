@@ -221,7 +221,6 @@ type simulator struct {
 	s         *launchSetup
 	c         float64 // bank capacitance, F
 	mode      circuitMode
-	bankShort bool // the bank discharges through its own ESR into a crowbar diode
 	bankOpen  bool // with the coil clamped, the bank loop's switch has opened
 	resting   bool // the projectile rests on its support
 	m, d      []float64
@@ -310,10 +309,6 @@ func (sm *simulator) rhs(_ float64, y, dy []float64) {
 		for k := 0; k < n; k++ {
 			dy[iF+k] = sm.yf[k] - sm.x[k]*ac
 		}
-	}
-	if sm.bankShort && s.bankR > 0 {
-		dy[0] = -vc / (s.bankR * sm.c)
-		dy[iE] += vc * vc / s.bankR
 	}
 	if sm.mode == modeClampCoil && !sm.bankOpen {
 		// Bank loop on its own: C, stray L, R, drop (RLCPulse's crowbar-at-coil bank loop).
@@ -550,8 +545,12 @@ func (s *launchSetup) run(c, v0 float64, o launchOptions) (launchRun, error) {
 				r.SwitchOff = t
 			}
 			if s.crowbarAt == "bank" {
+				// The bank, now behind the diode, discharges through its own ESR with τ = ESR·C (about a
+				// microsecond: too stiff to integrate for nothing). What it holds at the clamp, ½ C v² with
+				// v = ESR·i, is counted as ESR loss at once.
 				sm.mode = modeClampBank
-				sm.bankShort = true
+				y[iE] += 0.5 * c * y[0] * y[0]
+				y[0] = 0
 			} else {
 				// The stray inductance's current continues in the bank loop; the coil keeps its own.
 				sm.mode = modeClampCoil
@@ -609,26 +608,33 @@ func sign(x float64) float64 {
 
 // Filament-count defaults and bounds (see chooseFilaments).
 const (
-	defaultRadialDisc = 16 // annuli across a solid disc
-	defaultRadialRing = 8  // annuli across a ring's width
-	maxRadial         = 48
-	maxLayers         = 6
-	maxProjectileFilaments      = 128
+	defaultRadialDisc      = 16 // annuli across a solid disc
+	defaultRadialRing      = 2  // fewest annuli across a ring's width
+	maxRadial              = 48
+	maxLayers              = 6
+	maxProjectileFilaments = 128
 )
 
 // chooseFilaments returns the radial and axial division of a projectile of radial width w and thickness
-// thick (m) for skin depth delta (m): at least the defaults radially and one annulus per skin depth, and
-// layers no thicker than half a skin depth through the thickness (the current crowds into the face next
+// thick (m) for skin depth delta (m): for a disc at least 16 annuli and one per skin depth; for a ring
+// near-square elements and at least one annulus per skin depth; layers no thicker than half a skin depth
+// through the thickness (the current crowds into the face next
 // to the coil within about one skin depth, δ = √(ρ/(π f μ0)); e.g. Jackson, Classical Electrodynamics,
 // 3rd ed., §5.18). requested (the rig's projectile.filaments) overrides the radial count.
 func chooseFilaments(w, thick, delta float64, ring bool, requested int) (nr, nz int) {
 	nr = defaultRadialDisc
-	if ring {
-		nr = defaultRadialRing
-	}
+	nz = 1
 	if delta > 0 {
+		nz = min(max(int(math.Ceil(2*thick/delta)), 1), maxLayers)
 		nr = max(nr, int(math.Ceil(w/delta)))
-		nz = int(math.Ceil(2 * thick / delta))
+	}
+	if ring {
+		// A ring's section is divided into near-square elements: slivers add stiff eddy modes (time
+		// constant ∝ μ0 σ × the element's smaller side²) without adding accuracy.
+		nr = max(defaultRadialRing, int(math.Round(w/(thick/float64(nz)))))
+		if delta > 0 {
+			nr = max(nr, int(math.Ceil(w/delta)))
+		}
 	}
 	if requested > 0 {
 		nr = requested

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"os"
+	"strings"
 	"testing"
 	"time"
 
@@ -548,5 +549,125 @@ func BenchmarkLaunchAssess(b *testing.B) {
 		if err := assessLaunch(a); err != nil {
 			b.Fatal(err)
 		}
+	}
+}
+
+// TestAssessDemoRigsLaunch runs the whole assessment on the shipped demo rigs and checks that the launch
+// and field quantities appear for the two rigs that throw something, finite and with their bases.
+func TestAssessDemoRigsLaunch(t *testing.T) {
+	tests := []struct {
+		file   string
+		launch bool
+	}{{"disc-thrower.yaml", true}, {"ring-jumper.yaml", true}, {"flash-bank.yaml", false}}
+	for _, tc := range tests {
+		t.Run(tc.file, func(t *testing.T) {
+			data, err := os.ReadFile("../testdata/rigs/" + tc.file)
+			if err != nil {
+				t.Fatal(err)
+			}
+			rig, err := schema.LoadRig(tc.file, data)
+			if err != nil {
+				t.Fatal(err)
+			}
+			a, err := Assess(rig, DefaultTargets())
+			if err != nil {
+				t.Fatalf("got error %v", err)
+			}
+			for _, n := range []string{"launch.speed", "launch.kinetic_energy", "launch.height", "projectile.temperature_rise", "field.peak_flux_density", "field.implant_distance"} {
+				q, ok := a.Q(n)
+				if ok != tc.launch && !(ok && strings.HasPrefix(n, "field.")) {
+					t.Errorf("%s: got present %v, want %v", n, ok, tc.launch)
+				}
+				if ok {
+					t.Logf("%-30s %10.4g %-5s worst %s", n, q.Value, q.Unit, fmtWorst(q.Worst))
+				}
+			}
+			for _, g := range a.Gaps {
+				if strings.HasPrefix(g.Field, "projectile") || g.Field == "room.ceiling_height" {
+					t.Logf("gap %s: %s", g.Field, g.Effect)
+				}
+			}
+		})
+	}
+}
+
+// TestChooseFilaments checks the division rule on the two demo projectiles' shapes.
+func TestChooseFilaments(t *testing.T) {
+	tests := []struct {
+		name                    string
+		w, thick, delta         float64
+		ring                    bool
+		requested, wantR, wantZ int
+	}{
+		// 55 mm disc, 3 mm thick, δ = 4 mm: layers ≤ δ/2 → 2; 16 annuli (δ-rule gives 14).
+		{"disc", 0.055, 3e-3, 4e-3, false, 0, 16, 2},
+		// 9 mm × 12 mm ring, δ = 3.43 mm: 7 layers capped at 6 (2 mm), near-square → 4.5 → 5 annuli.
+		{"ring", 9e-3, 12e-3, 3.43e-3, true, 0, 5, 6},
+		{"requested radial count", 0.055, 3e-3, 4e-3, false, 24, 24, 2},
+		{"thin skin: capped at 128 filaments", 0.055, 10e-3, 0.5e-3, false, 0, 21, 6},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			nr, nz := chooseFilaments(tc.w, tc.thick, tc.delta, tc.ring, tc.requested)
+			if nr != tc.wantR || nz != tc.wantZ {
+				t.Errorf("got %d × %d, want %d × %d", nr, nz, tc.wantR, tc.wantZ)
+			}
+		})
+	}
+}
+
+// ringJumperInput builds the launch input of the demo ring jumper through the earlier stages (coil,
+// pulse), so that the ring on its solenoid is checked with the models a full assessment uses.
+func ringJumperInput(t *testing.T) launchInput {
+	t.Helper()
+	data, err := os.ReadFile("../testdata/rigs/ring-jumper.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	rig, err := schema.LoadRig("ring-jumper.yaml", data)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a := &Assessment{Rig: rig, Targets: DefaultTargets()}
+	for _, s := range stages {
+		if s.name == "launch" {
+			break
+		}
+		if err := s.run(a); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if a.m.coil == nil || a.m.loop == nil {
+		t.Fatal("ring jumper: the coil and pulse stages left no models")
+	}
+	ps, ok := readProjectile(a)
+	if !ok {
+		t.Fatal("ring jumper: projectile not readable")
+	}
+	return launchInput{coil: a.m.coil, loop: *a.m.loop, mat: ps.mat, outerR: ps.outerR, innerR: ps.innerR,
+		thick: ps.thick, gap: ps.gap, mass: ps.mass, nr: 5, nz: 6, ambient: 293.15}
+}
+
+// TestLaunchRingJumper checks the ring on a solenoid with a crowbar at the bank: energy balance within
+// 0.5 % and twice the filaments changing the speed by less than 2 %.
+func TestLaunchRingJumper(t *testing.T) {
+	in := ringJumperInput(t)
+	r1, err := mustSetup(t, in).run(in.loop.C, in.loop.V0, launchOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	sum := r1.Bank + r1.LoopLoss + r1.RingLoss + r1.Kinetic + r1.Potential + r1.Impact + r1.Field
+	if e := math.Abs(sum-r1.Stored) / r1.Stored; e > 0.005 {
+		t.Errorf("got energy sum %.6g J, want the stored %.6g J within 0.5 %% (error %.3g)", sum, r1.Stored, e)
+	}
+	in.nr, in.nz = 10, 12
+	r2, err := mustSetup(t, in).run(in.loop.C, in.loop.V0, launchOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	d := math.Abs(r2.Speed-r1.Speed) / r2.Speed
+	t.Logf("ring: 5×6 %.5g m/s, 10×12 %.5g m/s (change %.3g); energy error %.2g", r1.Speed, r2.Speed, d, math.Abs(sum-r1.Stored)/r1.Stored)
+	if d >= 0.02 {
+		t.Errorf("got %.5g m/s at 5×6 and %.5g m/s at 10×12 (change %.3g), want below 2 %%", r1.Speed, r2.Speed, d)
 	}
 }
