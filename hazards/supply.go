@@ -359,16 +359,28 @@ func assessSupply(a *Assessment) error {
 		basisLoss = basis95
 		note += "; the supply's current limit governs the start of the charge and the rest of the loss falls in the supply"
 	} else if s.Kind != "dc-supply" {
-		note += "; a rectified mains source charges in steps, so the constant-source loss is an estimate of the same order"
+		note += "; a rectified mains source charges only near the crests, so the real charge is slower than this DC-equivalent figure and the loss of the same order (the mains frequency is not used)"
 	}
-	return addAll(a,
+	if err := addAll(a,
 		Quantity{Name: "supply.time_to_95", Value: t95, Worst: Worst(t95w), Unit: "s", Formula: formula95, Inputs: inV, Basis: basis95, Note: note},
 		Quantity{Name: "supply.inrush_current", Value: i0, Worst: Worst(i0w), Unit: "A", Formula: formulaI, Inputs: inV, Basis: "Ohm's law at the first instant of charge, the bank voltage being zero",
 			Note: "into an empty bank; worst case at the worst charge voltage"},
 		Quantity{Name: "supply.charging_loss", Value: loss, Worst: Worst(lossw), Unit: "J", Formula: formulaLoss, Inputs: inV, Basis: basisLoss, Note: note},
 		Quantity{Name: "supply.charging_resistor_peak_power", Value: i0 * i0 * rc, Worst: Worst(i0w * i0w * rc), Unit: "W", Formula: "P0 = I0²·R", Inputs: inV,
 			Basis: "Joule heating P = I²R", Note: "at the first instant of charge; the resistor must carry this as a pulse (compare with its pulse rating, not only supply.charging_resistor_power)"},
-	)
+		Quantity{Name: "supply.charging_resistor_mean_power", Value: loss / t95, Worst: Worst(lossw / t95w), Unit: "W", Formula: "P̄ = W_R/t95", Inputs: inV,
+			Basis: "mean of the Joule heating over one charge", Note: "the whole charging loss spread over the time to 95 % (slightly high); repeated charges heat the resistor at this rate"},
+	); err != nil {
+		return err
+	}
+	if s.ChargingResistorPower == nil || !(*s.ChargingResistorPower > 0) {
+		a.AddGap("supply.charging_resistor_power", "the charging resistor's power rating is not stated, so its loading during a charge cannot be checked")
+		return nil
+	}
+	pr := *s.ChargingResistorPower
+	return a.Add(Quantity{Name: "supply.charging_resistor_power_fraction", Value: loss / t95 / pr, Worst: Worst(lossw / t95w / pr), Unit: "1", Formula: "P̄/Prated",
+		Inputs: []Input{{"P̄", "supply.charging_resistor_mean_power", loss / t95, "W"}, {"Prated", "supply.charging_resistor_power", pr, "W"}},
+		Basis:  "ratio to the rated continuous power", Note: "resistors tolerate short overloads by their makers' short-time ratings; above 1 over repeated charges the resistor overheats"})
 }
 
 // chargeRC returns the time to 95 % of V, the initial current and the energy dissipated in R when an empty

@@ -267,3 +267,22 @@ func TestSupplyBadInput(t *testing.T) {
 		})
 	}
 }
+
+// TestChargingResistorMeanPower checks the mean charging-resistor power against its closed form for a constant
+// source: W_R = ½CV² over t95 = RC·ln 20 gives P̄ = V²/(2R·ln 20), independent of C (first-order RC, as
+// above). Tolerance 1e-12 relative: rounding only. A missing power rating is a gap, not a pass.
+func TestChargingResistorMeanPower(t *testing.T) {
+	s := &schema.Supply{Kind: "dc-supply", DCVoltage: elF(400), ChargingResistor: elF(22e3), ChargingResistorPower: elF(10)}
+	a := elAssess(t, elMainsRig(s))
+	want := 400.0 * 400 / (2 * 22e3 * math.Log(20))
+	if got := elQ(t, a, "supply.charging_resistor_mean_power").Value; !scalar.EqualWithinRel(got, want, 1e-12) {
+		t.Errorf("got %.9g W, want %.9g W", got, want)
+	}
+	if got := elQ(t, a, "supply.charging_resistor_power_fraction").Value; !scalar.EqualWithinRel(got, want/10, 1e-12) {
+		t.Errorf("fraction: got %.9g, want %.9g", got, want/10)
+	}
+	s.ChargingResistorPower = nil
+	if a := elAssess(t, elMainsRig(s)); !elHasGap(a, "supply.charging_resistor_power") {
+		t.Errorf("got gaps %v, want one for the power rating", a.Gaps)
+	}
+}
