@@ -287,6 +287,9 @@ func assessBank(a *Assessment) error {
 		if leak.I > 0 {
 			inShare = append(inShare, Input{"Ileak", "bank.leakage", leak.I, "A"}, Input{"spread", "bank.leakage_spread", leak.Spread, "1"})
 			shareNote = append(shareNote, fmt.Sprintf("leakage model: %s; leakage resistance Vr/I; the least-leaking cell against others leaking %s more", leak.Basis, pct(leak.Spread)))
+			if b.LeakageSpread == nil {
+				shareNote = append(shareNote, "leakage spread not stated: assumed 100 % for electrolytic and tantalum cells, 50 % for others (nominally identical electrolytic cells commonly differ in leakage by a factor of two or more; common practice, from memory)")
+			}
 		}
 		if rb == 0 {
 			shareNote = append(shareNote, "no balancing resistors: sharing is left to the cells' leakage")
