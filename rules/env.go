@@ -173,19 +173,34 @@ func deriveLimits(e *evalEnv, p *Policy) map[string]float64 {
 	def("limit.bleeder_elements", "rig.bleeder.elements_in_series")
 	def("limit.bleeder_chains", "rig.bleeder.count")
 
-	// Launch tilt and the ballistic reach of a tilted launch, R = v² sin 2θ / g on flat ground without drag
-	// (an upper bound on the real range), unless the launch stage gives its own range.
+	// Launch tilt and the reach of a tilted launch: the launch stage's exclusion radius (worst case) when it
+	// gives one, else R = v² sin 2θ / g on flat ground without drag (an upper bound on the real range).
 	if t, ok := e.facts["rig.room.tilt"].(float64); ok {
 		l["limit.tilt"] = t
 	} else {
 		l["limit.tilt"] = val("launch.default_tilt")
 	}
-	if r, ok := e.lookup("launch.range"); ok {
+	if r, ok := e.lookup("worst.launch.exclusion_radius"); ok {
 		l["limit.projectile_range"] = r.(float64)
-	} else if v, ok := e.lookup("launch.speed"); ok {
+	} else if v, ok := e.lookup("worst.launch.speed"); ok {
 		const g = 9.80665 // m/s², standard gravity (CGPM 1901)
 		s := v.(float64)
 		l["limit.projectile_range"] = s * s * math.Sin(2*l["limit.tilt"]) / g
+	}
+
+	// The pulse's I²t against that of the surge rating's half-sine, I_TSM²·t_p/2 (t_p 10 ms when not stated):
+	// the physics' own ratio when it gives one, else from pulse.i2t and the rig's ratings (common practice,
+	// equal-I²t comparison of a shorter pulse).
+	if r, ok := e.lookup("worst.switch.surge_i2t_ratio"); ok {
+		l["limit.surge_i2t_ratio"] = r.(float64)
+	} else if i2t, ok := e.lookup("worst.pulse.i2t"); ok {
+		if itsm, ok := e.facts["rig.switch.surge_current"].(float64); ok && itsm > 0 {
+			tp := 10e-3 // s: one half-sine of 50 Hz, the usual base of I_TSM (IEC 60747-6 terminology)
+			if t, ok := e.facts["rig.switch.surge_pulse"].(float64); ok && t > 0 {
+				tp = t
+			}
+			l["limit.surge_i2t_ratio"] = i2t.(float64) / (itsm * itsm * tp / 2)
+		}
 	}
 
 	// Predicted decay for the measured decay (from the measured charge voltage to the measured end voltage):

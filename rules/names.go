@@ -93,14 +93,32 @@ var quantityCatalog = map[string]string{
 	"coil.temperature_rise": "K",
 
 	// launch and field (DESIGN.md §9; hazards/launch.go, field.go)
-	"launch.speed":                "m/s",
-	"launch.kinetic_energy":       "J",
-	"launch.height":               "m",
-	"launch.efficiency":           "1",
-	"launch.range":                "m",
-	"projectile.temperature_rise": "K",
-	"field.peak_flux_density":     "T",
-	"field.implant_distance":      "m",
+	"launch.speed":                    "m/s",
+	"launch.kinetic_energy":           "J",
+	"launch.height":                   "m",
+	"launch.efficiency":               "1",
+	"launch.exclusion_radius":         "m",
+	"launch.ceiling_impact_speed":     "m/s",
+	"launch.momentum":                 "kg·m/s",
+	"projectile.cooldown":             "s",
+	"coil.final_temperature":          "K",
+	"coil.shots_to_class":             "1",
+	"coil.i2t":                        "A²s",
+	"pulse.duration":                  "s",
+	"pulse.cell_peak_current":         "A",
+	"pulse.cell_peak_current_ratio":   "1",
+	"pulse.cell_reverse_voltage":      "V",
+	"pulse.cell_reverse_ratio":        "1",
+	"pulse.damping_ratio":             "1",
+	"switch.surge_ratio":              "1",
+	"switch.surge_i2t_ratio":          "1",
+	"switch.pulse_to_rating_duration": "1",
+	"switch.i2t_ratio":                "1",
+	"switch.di_dt_ratio":              "1",
+	"switch.voltage_ratio":            "1",
+	"projectile.temperature_rise":     "K",
+	"field.peak_flux_density":         "T",
+	"field.implant_distance":          "m",
 
 	// impulse noise, when a stage estimates it
 	"noise.peak_spl": "dB",
@@ -118,7 +136,8 @@ var limitCatalog = map[string]nameInfo{
 	"limit.bleeder_elements": {kindNum, "1"},   // bleeder.elements_in_series, default 1
 	"limit.bleeder_chains":   {kindNum, "1"},   // bleeder.count, default 1
 	"limit.tilt":             {kindNum, "rad"}, // room.tilt, else launch.default_tilt
-	"limit.projectile_range": {kindNum, "m"},   // launch.range, else v² sin 2θ / g from launch.speed
+	"limit.projectile_range": {kindNum, "m"},   // worst launch.exclusion_radius, else v² sin 2θ / g
+	"limit.surge_i2t_ratio":  {kindNum, "1"},   // worst switch.surge_i2t_ratio, else worst pulse.i2t / (I_TSM² t_p / 2)
 	"limit.decay_predicted":  {kindNum, "s"},   // predicted time for the measured decay, nearest path
 }
 
