@@ -132,34 +132,46 @@ type rlcSegment struct {
 	t0, l, c, alpha, q, u0, i0, drop float64
 }
 
-// sc returns S(τ) and Cs(τ).
-func (s rlcSegment) sc(tau float64) (S, Cs float64) {
+// esc returns e^{−ατ} S(τ) and e^{−ατ} Cs(τ). The damping factor is folded in before the hyperbolic
+// functions are formed, as (e^{(b−α)τ} ∓ e^{−(α+b)τ})/2 with b = √−q < α, so a heavily overdamped loop
+// cannot overflow.
+func (s rlcSegment) esc(tau float64) (eS, eC float64) {
 	x := s.q * tau * tau
 	switch {
 	case math.Abs(x) < 1e-6:
 		// Taylor series of sin(√q τ)/√q and cos(√q τ) in qτ²: the first omitted terms are below 1e-21.
-		return tau * (1 - x/6 + x*x/120), 1 - x/2 + x*x/24
+		e := math.Exp(-s.alpha * tau)
+		return e * tau * (1 - x/6 + x*x/120), e * (1 - x/2 + x*x/24)
 	case s.q > 0:
 		w := math.Sqrt(s.q)
-		return math.Sin(w*tau) / w, math.Cos(w * tau)
+		e := math.Exp(-s.alpha * tau)
+		return e * math.Sin(w*tau) / w, e * math.Cos(w*tau)
 	default:
 		b := math.Sqrt(-s.q)
-		return math.Sinh(b*tau) / b, math.Cosh(b * tau)
+		ep, em := math.Exp((b-s.alpha)*tau), math.Exp(-(s.alpha+b)*tau)
+		return (ep - em) / (2 * b), (ep + em) / 2
 	}
 }
 
 // current returns the loop current: i = e^{−ατ}[i0 Cs + (u0/L − α i0) S], τ = t − t0.
 func (s rlcSegment) current(t float64) float64 {
-	tau := t - s.t0
-	S, Cs := s.sc(tau)
-	return math.Exp(-s.alpha*tau) * (s.i0*Cs + (s.u0/s.l-s.alpha*s.i0)*S)
+	eS, eC := s.esc(t - s.t0)
+	return s.i0*eC + (s.u0/s.l-s.alpha*s.i0)*eS
 }
 
 // voltage returns the capacitor voltage: vC = Vd + e^{−ατ}[u0 Cs + (α u0 − i0/C) S].
 func (s rlcSegment) voltage(t float64) float64 {
-	tau := t - s.t0
-	S, Cs := s.sc(tau)
-	return s.drop + math.Exp(-s.alpha*tau)*(s.u0*Cs+(s.alpha*s.u0-s.i0/s.c)*S)
+	eS, eC := s.esc(t - s.t0)
+	return s.drop + s.u0*eC + (s.alpha*s.u0-s.i0/s.c)*eS
+}
+
+// slowRate returns the slowest decay rate of the segment, 1/s: α when under- or critically damped, and
+// α − √(α² − ω0²) = ω0²/(α + √(α² − ω0²)) when overdamped (the second form keeps its digits at large ζ).
+func (s rlcSegment) slowRate() float64 {
+	if s.q >= 0 {
+		return s.alpha
+	}
+	return 1 / (s.l * s.c) / (s.alpha + math.Sqrt(-s.q))
 }
 
 // zeroCsKS returns the first τ > 0 with Cs(τ) − κ S(τ) = 0, and whether there is one. Every event of the pulse
@@ -263,18 +275,18 @@ func RLCPulse(l LoopModel) (PulseResult, error) {
 		p.Regime = "overdamped"
 	}
 	tpk, _ := zeroCsKS(first.alpha, first.q) // always exists for a lobe from rest
+	if first.q < 0 {
+		// overdamped: t = ln((α + b)/(α − b))/(2b) with α − b = ω0²/(α + b), exact at any ζ.
+		b := math.Sqrt(-first.q)
+		tpk = math.Log((first.alpha+b)*(first.alpha+b)*lt*l.C) / (2 * b)
+	}
 	p.TimeToPeak = tpk
 	p.PeakCurrent = first.current(tpk)
 	p.DiDtMax = first.u0 / lt
 	zero, hasZero := segmentZero(first)
 	tailEnd := func(s rlcSegment) float64 {
-		// slowest decay rate of the segment: α − √(−q) when overdamped, α otherwise.
-		rate := s.alpha
-		if s.q < 0 {
-			rate = s.alpha - math.Sqrt(-s.q)
-		}
 		// from the later of its start and its peak, the current falls by e^{−rate·t}.
-		return s.t0 + tpk + math.Log(1/tailFraction)/rate
+		return s.t0 + tpk + math.Log(1/tailFraction)/s.slowRate()
 	}
 	fwd := func(s rlcSegment, t0, t1 float64, r float64) piece {
 		cur := wave{kind: wRLCCurrent, seg: s}
@@ -513,6 +525,20 @@ func (a integrals) add(b integrals) integrals {
 	return integrals{a.coil + b.coil, a.sw + b.sw, a.diode + b.diode, a.bank + b.bank, a.charge + b.charge, a.loss + b.loss}
 }
 
+// fastScale returns the shortest time scale of the piece's waves, s (at most the piece's length).
+func (pc *piece) fastScale() float64 {
+	f := pc.t1 - pc.t0
+	for _, w := range []wave{pc.coil, pc.sw, pc.diod, pc.bank, pc.v} {
+		switch w.kind {
+		case wRLCCurrent, wRLCVoltage:
+			f = math.Min(f, 1/(w.seg.alpha+math.Sqrt(math.Abs(w.seg.q))))
+		case wExp:
+			f = math.Min(f, w.tau)
+		}
+	}
+	return f
+}
+
 // gl16 returns the 16-point Gauss–Legendre sums of the integrands of pc over [a, b].
 func (pc *piece) gl16(a, b float64) integrals {
 	var s integrals
@@ -557,7 +583,18 @@ func (p *PulseResult) integrate(l LoopModel) {
 	var s integrals
 	for i := range p.pieces {
 		pc := &p.pieces[i]
-		s = s.add(pc.adapt(pc.t0, pc.t1, pc.gl16(pc.t0, pc.t1), tol, 0))
+		// Grade the piece geometrically from its start at its fastest time scale, so that a rise far
+		// shorter than the piece (an overdamped loop's L/R, a bank's ESR·C after a crowbar) is never
+		// stepped over by the quadrature nodes.
+		a, h := pc.t0, pc.fastScale()
+		for a < pc.t1 {
+			b := math.Min(a+h, pc.t1)
+			if pc.t1-b < h { // do not leave a sliver
+				b = pc.t1
+			}
+			s = s.add(pc.adapt(a, b, pc.gl16(a, b), tol, 0))
+			a, h = b, 2*h
+		}
 	}
 	p.CoilI2t, p.SwitchI2t, p.DiodeI2t, p.BankI2t, p.SwitchCharge, p.LoopHeat = s.coil, s.sw, s.diode, s.bank, s.charge, s.loss
 	p.CoilHeat = l.CoilR * p.CoilI2t
