@@ -52,6 +52,7 @@ var badInputs = []struct {
 	{"unit-unknown.yaml", "UNIT-UNKNOWN", 6, 23},
 	{"unit-zero.yaml", "UNIT-RANGE", 8, 15},
 	{"unknown-key-typo.yaml", "FIELD-UNKNOWN", 5, 3},
+	{"unknown-key-lookalike.yaml", "FIELD-UNKNOWN", 5, 3}, // Cyrillic es for the first letter
 	{"unknown-key.yaml", "FIELD-UNKNOWN", 7, 3},
 	{"unknown-section.yaml", "FIELD-UNKNOWN", 7, 1},
 	{"wire-gauge.yaml", "FIELD-RANGE", 8, 15},

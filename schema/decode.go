@@ -214,7 +214,7 @@ func (d *decoder) unknownKey(k *yaml.Node, t reflect.Type, path string) string {
 		summary += fmt.Sprintf(" (did you mean %q?)", m)
 		detail = fmt.Sprintf("Rename it to %q. ", m)
 	}
-	detail += "Known keys here: " + strings.Join(keys, ", ") + "."
+	detail += lookAlikeHint(k.Value) + "Known keys here: " + strings.Join(keys, ", ") + "."
 	d.diags = append(d.diags, Diagnostic{Severity: SeverityError, Code: "FIELD-UNKNOWN", Summary: summary, Detail: detail,
 		File: d.name, Line: k.Line, Column: k.Column, Path: join(path, k.Value), Length: len([]rune(k.Value))})
 	return Suggest(k.Value, keys)
@@ -348,7 +348,7 @@ func (d *decoder) decodeString(v *yaml.Node, fv reflect.Value, tag reflect.Struc
 			summary += fmt.Sprintf(" (did you mean %q?)", m)
 		}
 		d.diags = append(d.diags, Diagnostic{Severity: SeverityError, Code: "FIELD-ENUM", Summary: summary,
-			Detail: "Accepted values: " + strings.Join(opts, ", ") + ".", File: d.name, Line: v.Line, Column: v.Column, Path: path})
+			Detail: lookAlikeHint(s) + "Accepted values: " + strings.Join(opts, ", ") + ".", File: d.name, Line: v.Line, Column: v.Column, Path: path})
 		return
 	}
 	if strings.TrimSpace(s) == "" && d.required[pattern] {
@@ -356,6 +356,21 @@ func (d *decoder) decodeString(v *yaml.Node, fv reflect.Value, tag reflect.Struc
 		return
 	}
 	store(fv, reflect.ValueOf(s))
+}
+
+// lookAlikeHint names the first non-ASCII character of a key or word, which is usually a look-alike typed
+// or pasted in by accident ("с", Cyrillic, for "c").
+func lookAlikeHint(s string) string {
+	for i, r := range []rune(s) {
+		if r >= 0x80 {
+			h := fmt.Sprintf("Character %d, %q (U+%04X), is not ASCII", i+1, string(r), r)
+			if like, ok := lookAlikes[r]; ok {
+				h += fmt.Sprintf("; it looks like %q", like)
+			}
+			return h + ". "
+		}
+	}
+	return ""
 }
 
 // quantityColumn places a quantity error: the node column, plus the offset into the text (and the quote).
