@@ -181,29 +181,62 @@ func (ds Diagnostics) Render(w io.Writer, src map[string][]byte) error {
 	return err
 }
 
-// sourceLine returns line n (1-based) of data without its line ending, with control characters other than
+// lineStarts returns the byte offset at which each line of data begins. Line breaks are counted as the YAML
+// parser counts them (libyaml's rules, which yaml.v3 keeps): LF, CR, CR LF, and the Unicode NEL, LS and PS.
+func lineStarts(data []byte) []int {
+	starts := []int{0}
+	for i := 0; i < len(data); i++ {
+		switch {
+		case data[i] == '\n':
+			starts = append(starts, i+1)
+		case data[i] == '\r':
+			if i+1 < len(data) && data[i+1] == '\n' {
+				i++
+			}
+			starts = append(starts, i+1)
+		case data[i] == 0xc2 && i+1 < len(data) && data[i+1] == 0x85: // NEL
+			i++
+			starts = append(starts, i+1)
+		case data[i] == 0xe2 && i+2 < len(data) && data[i+1] == 0x80 && (data[i+2] == 0xa8 || data[i+2] == 0xa9): // LS, PS
+			i += 2
+			starts = append(starts, i+1)
+		}
+	}
+	return starts
+}
+
+// lineEnd returns the offset where the line starting at start ends (before its line break).
+func lineEnd(data []byte, starts []int, n int) int {
+	end := len(data)
+	if n < len(starts) {
+		end = starts[n]
+	}
+	s := string(data[starts[n-1]:end])
+	for _, br := range []string{"\r\n", "\n", "\r", "\u0085", "\u2028", "\u2029"} {
+		if strings.HasSuffix(s, br) {
+			return end - len(br)
+		}
+	}
+	return end
+}
+
+// sourceLine returns line n (1-based) of data without its line break, with control characters other than
 // tab replaced so that the excerpt cannot disturb a terminal.
 func sourceLine(data []byte, n int) (string, bool) {
-	if n < 1 || data == nil {
+	if data == nil {
 		return "", false
 	}
-	for i := 1; i < n; i++ {
-		j := strings.IndexByte(string(data), '\n')
-		if j < 0 {
-			return "", false
-		}
-		data = data[j+1:]
+	starts := lineStarts(data)
+	if n < 1 || n > len(starts) {
+		return "", false
 	}
-	if j := strings.IndexByte(string(data), '\n'); j >= 0 {
-		data = data[:j]
-	}
-	s := strings.TrimRight(string(data), "\r")
+	s := string(data[starts[n-1]:lineEnd(data, starts, n)])
 	if len(s) > 400 { // a minified or binary line: show its start only
 		s = s[:400]
 	}
 	s = strings.ToValidUTF8(s, "\uFFFD")
 	return strings.Map(func(r rune) rune {
-		if r != '\t' && (r < 0x20 || r == 0x7f) {
+		if r != '\t' && (r < 0x20 || r == 0x7f || (r >= 0x80 && r < 0xa0)) {
 			return '\uFFFD'
 		}
 		return r

@@ -132,3 +132,24 @@ func ExampleDiagnostics_Render() {
 	//    |   ^^^^^^^^^^^
 	//   = Rename it to "capacitance". Known keys here: capacitance, capacitance_tolerance, voltage_rating, dielectric, esr, leakage, peak_current_rating, series, parallel, leakage_spread, balancing, pulse_rated.
 }
+
+// TestLineStarts checks line counting against the YAML 1.1 line breaks that libyaml (and so yaml.v3)
+// recognises: LF, CR, CR LF, NEL (U+0085), LS (U+2028), PS (U+2029) — YAML 1.1 §4.1.4 (from memory).
+func TestLineStarts(t *testing.T) {
+	cases := []struct {
+		in   string
+		want int
+	}{
+		{"a", 1}, {"a\n", 2}, {"a\nb", 2}, {"a\r\nb", 2}, {" \r0", 2}, {"a\rb\nc", 3}, {"a\u0085b", 2}, {"a\u2028b\u2029c", 3},
+	}
+	for _, c := range cases {
+		t.Run(fmt.Sprintf("%q", c.in), func(t *testing.T) {
+			if got := len(lineStarts([]byte(c.in))); got != c.want {
+				t.Errorf("got %d lines, want %d", got, c.want)
+			}
+		})
+	}
+	if l, ok := sourceLine([]byte("a\r\nbc\rd"), 2); !ok || l != "bc" {
+		t.Errorf("got line 2 %q, want %q", l, "bc")
+	}
+}

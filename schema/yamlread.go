@@ -191,7 +191,7 @@ func syntaxDiag(name string, data []byte, err error) Diagnostic {
 			col = 1 + utf8.RuneCountInString(indent)
 		}
 	} else {
-		line = bytes.Count(data, []byte("\n")) + 1
+		line = len(lineStarts(data))
 	}
 	return Diagnostic{Severity: SeverityError, Code: "YAML-SYNTAX", Summary: "YAML syntax: " + msg, Detail: detail, File: name, Line: line, Column: col}
 }
@@ -199,15 +199,7 @@ func syntaxDiag(name string, data []byte, err error) Diagnostic {
 // failingLine returns the smallest k such that the first k lines of data fail to parse with an error whose
 // text (without its line number) is msg, or 0 if bisection finds none.
 func failingLine(data []byte, msg string) int {
-	ends := []int{}
-	for i, c := range data {
-		if c == '\n' {
-			ends = append(ends, i+1)
-		}
-	}
-	if len(ends) == 0 || ends[len(ends)-1] != len(data) {
-		ends = append(ends, len(data))
-	}
+	ends := append(lineStarts(data)[1:], len(data))
 	fails := func(k int) bool {
 		var n yaml.Node
 		err := yaml.Unmarshal(data[:ends[k-1]], &n)
@@ -237,8 +229,8 @@ func failingLine(data []byte, msg string) int {
 
 // secondDocLine finds the line of the document separator after the first document's start.
 func secondDocLine(data []byte, after int) int {
-	for i, l := range strings.Split(string(data), "\n") {
-		if i+1 > after && (strings.HasPrefix(l, "---") || strings.HasPrefix(l, "...")) {
+	for i, st := range lineStarts(data) {
+		if l := data[st:]; i+1 > after && (bytes.HasPrefix(l, []byte("---")) || bytes.HasPrefix(l, []byte("..."))) {
 			return i + 1
 		}
 	}
@@ -270,8 +262,6 @@ func firstInvalidUTF8(data []byte) int {
 // lineCol converts a byte offset into a 1-based line and rune column.
 func lineCol(data []byte, off int) (int, int) {
 	off = min(off, len(data))
-	before := data[:off]
-	line := bytes.Count(before, []byte("\n")) + 1
-	start := bytes.LastIndexByte(before, '\n') + 1
-	return line, utf8.RuneCount(before[start:]) + 1
+	starts := lineStarts(data[:off])
+	return len(starts), utf8.RuneCount(data[starts[len(starts)-1]:off]) + 1
 }
