@@ -134,7 +134,8 @@ func ExampleDiagnostics_Render() {
 }
 
 // TestLineStarts checks line counting against the YAML 1.1 line breaks that libyaml (and so yaml.v3)
-// recognises: LF, CR, CR LF, NEL (U+0085), LS (U+2028), PS (U+2029) — YAML 1.1 §4.1.4 (from memory).
+// recognises: LF, CR, CR LF, NEL (U+0085), LS (U+2028), PS (U+2029) — YAML 1.1, "Line Break Characters"
+// (from memory).
 func TestLineStarts(t *testing.T) {
 	cases := []struct {
 		in   string
