@@ -87,6 +87,18 @@ func chainPath(n ast.Node) (string, bool) {
 	return "", false
 }
 
+// chainStart returns the offset where a member chain begins (its root identifier), so a diagnostic marks
+// the whole name rather than its last dot.
+func chainStart(n ast.Node) int {
+	for {
+		m, ok := n.(*ast.MemberNode)
+		if !ok {
+			return n.Location().From
+		}
+		n = m.Node
+	}
+}
+
 func getterName(k kind) string {
 	switch k {
 	case kindBool:
@@ -109,7 +121,7 @@ func (p *patcher) Visit(node *ast.Node) {
 			return
 		}
 		if !p.ns.prefixes[path] {
-			p.errs = append(p.errs, posErr{offset: n.Location().From, code: CodeUnknownName,
+			p.errs = append(p.errs, posErr{offset: chainStart(n), code: CodeUnknownName,
 				msg:    fmt.Sprintf("unknown name %q%s", path, suggest(path, p.candidates(path))),
 				detail: "conditions name assessment quantities (DESIGN.md §9), rig fields as rig.SECTION.FIELD, policy.KEY, limit.NAME; see 'chargeward rules --names'"})
 		}
@@ -176,7 +188,7 @@ func (l *leftover) Visit(node *ast.Node) {
 	}
 	if path, ok := chainPath(*node); ok && l.ns.roots[strings.SplitN(path, ".", 2)[0]] {
 		if _, isLeaf := l.ns.leaves[path]; !isLeaf {
-			l.errs = append(l.errs, posErr{offset: (*node).Location().From, code: CodeUnknownName,
+			l.errs = append(l.errs, posErr{offset: chainStart(*node), code: CodeUnknownName,
 				msg:    fmt.Sprintf("%q is a group of names, not a value", path),
 				detail: "name one of its fields, or test stated(\"" + path + "\")"})
 		}

@@ -7,6 +7,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"strings"
+	"sync"
 
 	"chargeward/hazards"
 )
@@ -33,6 +34,12 @@ const (
 const (
 	RulebookSchemaID = "https://chargeward.example/schema/rulebook.schema.json"
 	PolicySchemaID   = "https://chargeward.example/schema/policy.schema.json"
+)
+
+var (
+	defaultOnce  sync.Once
+	defaultSet   *Set
+	defaultDiags Diagnostics
 )
 
 // Set is a compiled rulebook and policy, ready to evaluate assessments. It is safe for concurrent use.
@@ -81,9 +88,19 @@ func Load(policyName string, policyData []byte, rulesName string, rulesData []by
 	s := &Set{policy: pol}
 	ns := newNamespace(pol)
 
-	if ds := s.addRulebook(DefaultRulebookName, defaultRulebook, ns, false); ds != nil {
-		return nil, ds // the embedded rulebook is tested; a failure here is a build defect
+	// The default rulebook compiles the same for every policy (a site policy changes values, never the keys
+	// a condition may name), so it is compiled once; compiled programs are read-only and safe to share.
+	defaultOnce.Do(func() {
+		d := &Set{}
+		defaultDiags = d.addRulebook(DefaultRulebookName, defaultRulebook, ns, false)
+		defaultSet = d
+	})
+	if defaultDiags != nil {
+		return nil, defaultDiags // the embedded rulebook is tested; a failure here is a build defect
 	}
+	s.rules = append([]*Rule(nil), defaultSet.rules...)
+	s.hazards = defaultSet.hazards
+	s.checklist = append([]ChecklistItem(nil), defaultSet.checklist...)
 	if rulesData != nil {
 		if rulesName == "" {
 			rulesName = "<site rulebook>"
@@ -130,7 +147,7 @@ func (s *Set) addRulebook(name string, data []byte, ns *namespace, site bool) Di
 			c.diag(n, CodeUnknownRule, fmt.Sprintf("no rule %q to disable%s", d.ID, suggest(d.ID, sortedKeys(ids))), "list the rules with 'chargeward rules'")
 			continue
 		}
-		kept := s.rules[:0]
+		var kept []*Rule // a new slice: the compiled defaults are shared between sets
 		for _, r := range s.rules {
 			if r.ID != d.ID {
 				kept = append(kept, r)

@@ -3,7 +3,9 @@ package rules
 import (
 	"strconv"
 	"strings"
+	"sync"
 
+	"github.com/santhosh-tekuri/jsonschema/v5"
 	"gopkg.in/yaml.v3"
 
 	"chargeward/schema"
@@ -16,7 +18,7 @@ func readFile(name string, data []byte, id string, schemaJSON []byte) (*yaml.Nod
 	if ds.HasErrors() || root == nil {
 		return nil, ds
 	}
-	sch, err := schema.CompileSchema(id, schemaJSON)
+	sch, err := compiled(id, schemaJSON)
 	if err != nil {
 		return nil, Diagnostics{errAt(name, 0, 0, "SCHEMA-VIOLATION", "embedded schema does not compile: "+err.Error(), "this is a program error")}
 	}
@@ -24,6 +26,26 @@ func readFile(name string, data []byte, id string, schemaJSON []byte) (*yaml.Nod
 		return nil, ds
 	}
 	return root, nil
+}
+
+var (
+	schemaMu    sync.Mutex
+	schemaCache = map[string]*jsonschema.Schema{}
+)
+
+// compiled returns an embedded schema, compiled once.
+func compiled(id string, data []byte) (*jsonschema.Schema, error) {
+	schemaMu.Lock()
+	defer schemaMu.Unlock()
+	if s, ok := schemaCache[id]; ok {
+		return s, nil
+	}
+	s, err := schema.CompileSchema(id, data)
+	if err != nil {
+		return nil, err
+	}
+	schemaCache[id] = s
+	return s, nil
 }
 
 // nodeAt follows a JSON pointer ("/rules/3/when") through a node tree; it returns the deepest node reached
