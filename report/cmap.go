@@ -3,7 +3,45 @@ package report
 import (
 	"encoding/binary"
 	"errors"
+	"sync"
+
+	"golang.org/x/image/font/gofont/gobold"
+	"golang.org/x/image/font/gofont/goitalic"
+	"golang.org/x/image/font/gofont/gomono"
+	"golang.org/x/image/font/gofont/gomonobold"
+	"golang.org/x/image/font/gofont/goregular"
 )
+
+// fontGlyphs is the set of characters that all five embedded fonts map, read once.
+var fontGlyphs = sync.OnceValues(func() (*cmap, error) {
+	var all *cmap
+	for _, f := range [][]byte{goregular.TTF, gobold.TTF, goitalic.TTF, gomono.TTF, gomonobold.TTF} {
+		c, err := parseCmap(f)
+		if err != nil {
+			return nil, err
+		}
+		if all == nil {
+			all = c
+		} else {
+			all = all.intersect(c)
+		}
+	}
+	return all, nil
+})
+
+// intersect returns the characters in both c and o.
+func (c *cmap) intersect(o *cmap) *cmap {
+	out := &cmap{}
+	for _, a := range c.ranges {
+		for _, b := range o.ranges {
+			lo, hi := max(a[0], b[0]), min(a[1], b[1])
+			if lo <= hi {
+				out.ranges = append(out.ranges, [3]uint32{lo, hi, 1})
+			}
+		}
+	}
+	return out
+}
 
 // cmap is the set of characters a TrueType font maps to a glyph, read from its 'cmap' table (OpenType
 // specification 1.9, "cmap — Character to Glyph Index Mapping Table", subtable formats 4 and 12). The

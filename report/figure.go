@@ -120,7 +120,7 @@ func (d *doc) figure(title string, ss []series, refs []refLine, what string) {
 	}
 
 	// Units and scales.
-	xUnit, yUnit := ok[0].curve.XUnit, ok[0].curve.YUnit
+	yUnit := ok[0].curve.YUnit
 	xMin, xMax, yMin, yMax := math.Inf(1), math.Inf(-1), 0.0, 0.0
 	for _, s := range ok {
 		for i := range s.curve.X {
@@ -142,11 +142,9 @@ func (d *doc) figure(title string, ss []series, refs []refLine, what string) {
 	if yMax <= yMin {
 		yMax = yMin + 1
 	}
-	xDiv, xPU := scaleFor(math.Max(math.Abs(xMin), math.Abs(xMax)), xUnit)
+	xa := d.xAxis(ok, refs, xMin, xMax)
 	yDiv, yPU := scaleFor(math.Max(math.Abs(yMin), math.Abs(yMax)), yUnit)
-	xt := ticks(xMin/xDiv, xMax/xDiv)
 	yt := ticks(yMin/yDiv, yMax/yDiv)
-	x0, x1 := xt[0], xt[len(xt)-1]
 	y0, y1 := yt[0], yt[len(yt)-1]
 
 	// Legend entries, to size the block.
@@ -182,15 +180,15 @@ func (d *doc) figure(title string, ss []series, refs []refLine, what string) {
 
 	px, py := marginL+figLeft, d.y
 	pw, ph := contentW-figLeft-figRightIn, figPlotH
-	mapX := func(v float64) float64 { return px + (v/xDiv-x0)/(x1-x0)*pw }
+	mapX := func(v float64) float64 { return px + xa.frac(v)*pw }
 	mapY := func(v float64) float64 { return py + ph - (v/yDiv-y0)/(y1-y0)*ph }
 
 	// Grid and frame.
 	p := d.pdf
 	p.SetLineWidth(0.1)
 	p.SetDrawColor(215, 215, 215)
-	for _, v := range xt {
-		x := px + (v-x0)/(x1-x0)*pw
+	for _, t := range xa.ticks {
+		x := px + t.frac*pw
 		p.Line(x, py, x, py+ph)
 	}
 	for _, v := range yt {
@@ -204,12 +202,12 @@ func (d *doc) figure(title string, ss []series, refs []refLine, what string) {
 
 	// Tick labels.
 	d.setFont(sans, "", 7.5)
-	xDec, yDec := decimals(xt), decimals(yt)
+	yDec := decimals(yt)
 	prevRight := math.Inf(-1)
-	for _, v := range xt {
-		s := strconv.FormatFloat(v, 'f', xDec, 64)
+	for _, t := range xa.ticks {
+		s := t.label
 		w := d.width(s) + 0.4
-		x := px + (v-x0)/(x1-x0)*pw - w/2
+		x := px + t.frac*pw - w/2
 		x = math.Max(px-1, math.Min(x, px+pw+figRightIn-w))
 		if x < prevRight+1 { // never let tick labels touch; ticks() keeps them sparse enough in practice
 			continue
@@ -226,7 +224,7 @@ func (d *doc) figure(title string, ss []series, refs []refLine, what string) {
 	}
 	// Axis titles with quantity and prefixed unit.
 	d.setFont(sans, "", 8.5)
-	xTitle := d.fit(axisTitle(ok[0].curve.XLabel, xUnit, xPU), pw)
+	xTitle := d.fit(xa.title, pw)
 	d.cell(px, py+ph+tickH+0.8, pw, lineH(8.5), xTitle, "C", "axis-title")
 	yTitle := d.fit(axisTitle(ok[0].curve.YLabel, yUnit, yPU), ph)
 	yw := d.width(yTitle)
@@ -297,6 +295,87 @@ func (d *doc) figure(title string, ss []series, refs []refLine, what string) {
 	}
 	d.y += lineH(legSize) + 6
 	p.SetDrawColor(0, 0, 0)
+}
+
+// axisTick is one tick of the x axis: its place along the axis (0 to 1) and its label.
+type axisTick struct {
+	frac  float64
+	label string
+}
+
+// axis is the x axis of a figure: where an SI value falls along it, its ticks and its title.
+type axis struct {
+	frac  func(v float64) float64
+	ticks []axisTick
+	title string
+}
+
+// logRatio is the spread of the curves' time spans above which the x axis is logarithmic: a fast and a slow
+// decay on one linear axis would leave the fast one as a line on the left edge.
+const logRatio = 20
+
+// xAxis chooses a linear axis with SI-prefixed unit, or a logarithmic one (decade ticks, base unit) when the
+// curves' spans differ by more than logRatio or a vertical reference line would sit in the first 2 %.
+func (d *doc) xAxis(ss []series, refs []refLine, xMin, xMax float64) axis {
+	unit, label := ss[0].curve.XUnit, ss[0].curve.XLabel
+	minEnd, minPos := math.Inf(1), math.Inf(1)
+	for _, s := range ss {
+		minEnd = math.Min(minEnd, s.curve.X[len(s.curve.X)-1])
+		for _, x := range s.curve.X {
+			if x > 0 {
+				minPos = math.Min(minPos, x)
+				break
+			}
+		}
+	}
+	logX := xMin >= 0 && minEnd > 0 && xMax/minEnd > logRatio
+	for _, r := range refs {
+		if r.vertical && r.v > 0 && r.v < 0.02*xMax && xMin >= 0 {
+			logX = true
+			minPos = math.Min(minPos, r.v)
+		}
+	}
+	if logX && minPos < math.Inf(1) {
+		lo := math.Floor(math.Log10(minPos))
+		hi := math.Ceil(math.Log10(xMax))
+		if hi <= lo {
+			hi = lo + 1
+		}
+		step := math.Ceil((hi - lo) / 8)
+		a := axis{frac: func(v float64) float64 {
+			if v <= 0 {
+				return 0
+			}
+			return math.Max(0, (math.Log10(v)-lo)/(hi-lo))
+		}}
+		for e := lo; e <= hi+1e-9; e += step {
+			a.ticks = append(a.ticks, axisTick{(e - lo) / (hi - lo), decade(int(e))})
+		}
+		a.title = axisTitle(label, unit, unit) + ", logarithmic scale"
+		return a
+	}
+	div, pu := scaleFor(math.Max(math.Abs(xMin), math.Abs(xMax)), unit)
+	xt := ticks(xMin/div, xMax/div)
+	x0, x1 := xt[0], xt[len(xt)-1]
+	a := axis{frac: func(v float64) float64 { return (v/div - x0) / (x1 - x0) }, title: axisTitle(label, unit, pu)}
+	dec := decimals(xt)
+	for _, v := range xt {
+		a.ticks = append(a.ticks, axisTick{(v - x0) / (x1 - x0), strconv.FormatFloat(v, 'f', dec, 64)})
+	}
+	return a
+}
+
+// decade labels 10ⁿ: "1", "10", "100" and otherwise 10 with a superscript exponent.
+func decade(e int) string {
+	switch e {
+	case 0:
+		return "1"
+	case 1:
+		return "10"
+	case 2:
+		return "100"
+	}
+	return "10" + superscript.Replace(strconv.Itoa(e))
 }
 
 // cleanCurve drops points that are non-finite or unpaired.
@@ -388,14 +467,15 @@ func axisTitle(label, unit, prefixed string) string {
 }
 
 // ticks returns tick values at a 1-2-2.5-5 step covering [lo, hi] with four to eight intervals, choosing
-// the step whose ticks waste the least of the axis (ties: the coarser step).
+// the step whose ticks waste the least of the axis.
 func ticks(lo, hi float64) []float64 {
 	if !(hi > lo) {
 		hi = lo + 1
 	}
 	mag := math.Pow(10, math.Floor(math.Log10((hi-lo)/6)))
 	best, bestSpan := 0.0, math.Inf(1)
-	for _, m := range []float64{0.5, 1, 2, 2.5, 5, 10, 20} {
+	// On a tie the earlier candidate wins: 1-2-5 steps read more easily than 2.5.
+	for _, m := range []float64{0.5, 1, 2, 5, 10, 20, 2.5, 25} {
 		step := m * mag
 		n := math.Ceil(hi/step-1e-9) - math.Floor(lo/step+1e-9)
 		if n < 4 || n > 8 {
@@ -403,8 +483,6 @@ func ticks(lo, hi float64) []float64 {
 		}
 		if span := n * step; span < bestSpan*(1-1e-9) {
 			best, bestSpan = step, span
-		} else if span <= bestSpan*(1+1e-9) {
-			best = step
 		}
 	}
 	if best == 0 {

@@ -56,3 +56,58 @@ func TestThin(t *testing.T) {
 		t.Errorf("got peak %g after thinning, want %g", maxOut, maxIn)
 	}
 }
+
+// TestXAxisScale checks the choice between a linear and a logarithmic time axis, and that the logarithmic
+// one places decades evenly (log10 is the definition of the scale).
+func TestXAxisScale(t *testing.T) {
+	curve := func(end float64) series {
+		c := series{}
+		c.curve.XUnit, c.curve.XLabel = "s", "time (s)"
+		for i := 0; i <= 240; i++ {
+			c.curve.X = append(c.curve.X, end*float64(i)/240)
+			c.curve.Y = append(c.curve.Y, 1)
+		}
+		return c
+	}
+	d, err := layout(fixtureReview(t, 0, "x"), Options{Date: reviewDate}, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	tests := []struct {
+		name  string
+		ends  []float64
+		refs  []refLine
+		log   bool
+		title string
+	}{
+		{"one curve", []float64{936}, nil, false, "time (s)"},
+		{"close spans", []float64{75, 259}, nil, false, "time (s)"},
+		{"fast and slow decay", []float64{75.7, 81878}, nil, true, "time (s), logarithmic scale"},
+		{"limit line near zero", []float64{100000}, []refLine{{vertical: true, v: 60}}, true, "time (s), logarithmic scale"},
+		{"milliseconds", []float64{0.0063}, nil, false, "time (ms)"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			var ss []series
+			xMax := 0.0
+			for _, e := range tt.ends {
+				ss = append(ss, curve(e))
+				xMax = math.Max(xMax, e)
+			}
+			a := d.xAxis(ss, tt.refs, 0, xMax)
+			if a.title != tt.title {
+				t.Errorf("title: got %q, want %q", a.title, tt.title)
+			}
+			if tt.log {
+				f1, f10, f100 := a.frac(xMax/100), a.frac(xMax/10), a.frac(xMax)
+				// equal steps per decade, to rounding
+				if math.Abs((f10-f1)-(f100-f10)) > 1e-12 || f10 <= f1 {
+					t.Errorf("decades: got %g, %g, %g, want equally spaced and increasing", f1, f10, f100)
+				}
+			}
+			if a.frac(xMax) > 1+1e-12 || a.ticks[0].frac != 0 || a.ticks[len(a.ticks)-1].frac < a.frac(xMax)-1e-12 {
+				t.Errorf("ticks %v do not cover the data up to %g (frac %g)", a.ticks, xMax, a.frac(xMax))
+			}
+		})
+	}
+}

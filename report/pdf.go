@@ -67,7 +67,7 @@ type doc struct {
 	total  int    // page count, known on the second pass; 0 on the first
 	y      float64
 	boxes  []box
-	glyphs *cmap // characters the Go fonts can draw
+	glyphs *cmap // characters every embedded Go font can draw
 	figNo  int
 }
 
@@ -117,7 +117,7 @@ func layout(r *rules.Review, opt Options, total int) (d *doc, err error) {
 			d, err = nil, fmt.Errorf("report: laying out the PDF: %v", p)
 		}
 	}()
-	glyphs, gerr := parseCmap(goregular.TTF)
+	glyphs, gerr := fontGlyphs()
 	if gerr != nil {
 		return nil, fmt.Errorf("report: embedded font: %w", gerr)
 	}
@@ -211,6 +211,12 @@ func (d *doc) footer() {
 
 // --- text primitives ---
 
+// glyphFallback spells the mathematical signs that the Go fonts lack (outside WGL4) but the formulas and
+// notes of the physics use.
+var glyphFallback = map[rune]string{
+	'∈': "in", '∝': "prop. to", '≪': "<<", '≫': ">>", '⌊': "floor(", '⌋': ")", 'ᵀ': "^T",
+}
+
 // clean replaces what the fonts cannot draw (and control characters) so that no glyph prints as a blank box.
 func (d *doc) clean(s string) string {
 	var b strings.Builder
@@ -227,6 +233,8 @@ func (d *doc) clean(s string) string {
 		default:
 			if d.glyphs.has(r) {
 				b.WriteRune(r)
+			} else if alt, ok := glyphFallback[r]; ok {
+				b.WriteString(alt)
 			} else {
 				b.WriteRune('?')
 			}
@@ -434,6 +442,7 @@ type tableOpt struct {
 	noHeader bool                         // no header row (a label/value list)
 	minRowH  float64                      // minimum row height, mm (room to write by hand)
 	decorate func(i int, x, y, h float64) // draws extra marks for row i in the row's rectangle
+	title    string                          // printed with "(continued)" above the header on later pages
 }
 
 // table draws rows under a header row that is repeated on every page the table spans. Each row keeps
@@ -495,6 +504,10 @@ func (d *doc) table(cols []column, rows [][]string, o tableOpt) {
 		if first || !d.room(rh) {
 			if !d.room(headH + rh) {
 				d.newPage()
+				if !first && o.title != "" {
+					d.flow(d.spans(o.title+" (continued)", marginL, contentW, sans, "B", 9), nil)
+					d.y += 0.5
+				}
 			}
 			if !o.noHeader {
 				header()

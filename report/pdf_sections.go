@@ -149,7 +149,7 @@ func (d *doc) summary() {
 		d.paragraph("No key quantity could be computed from the rig description.", "I", 9)
 	} else {
 		d.table([]column{{"quantity", 62, mono, "", 7.5}, {"meaning", 60, sans, "", 8.5},
-			{"nominal", 26, sans, "B", 8.5}, {"worst case", contentW - 148, sans, "B", 8.5}}, rows, tableOpt{})
+			{"nominal", 26, sans, "B", 8.5}, {"worst case", contentW - 148, sans, "B", 8.5}}, rows, tableOpt{title: "Key quantities"})
 	}
 	gaps := d.r.Assessment.Gaps
 	d.subheading("Not stated in the rig description", 15)
@@ -309,7 +309,7 @@ func (d *doc) checklist() {
 			}
 			rows = append(rows, []string{"", step, it.Measured, ""})
 		}
-		d.table(cols, rows, tableOpt{minRowH: 10, decorate: func(i int, x, y, h float64) {
+		d.table(cols, rows, tableOpt{title: capital(title), minRowH: 10, decorate: func(i int, x, y, h float64) {
 			d.pdf.SetDrawColor(0, 0, 0)
 			d.pdf.SetLineWidth(0.3)
 			d.pdf.Rect(x+2, y+1.6, 4.2, 4.2, "D")
@@ -441,7 +441,7 @@ func (d *doc) appendix() {
 			rows = append(rows, []string{t.Key, SI(t.Value, t.Unit), orDash(t.Basis), orDash(t.Confidence)})
 		}
 		d.table([]column{{"policy key", 50, mono, "", 7.5}, {"value", 22, sans, "B", 8.5}, {"basis", contentW - 96, sans, "", 8},
-			{"source status", 24, sans, "", 8}}, rows, tableOpt{})
+			{"source status", 24, sans, "", 8}}, rows, tableOpt{title: "Thresholds in force"})
 	}
 }
 

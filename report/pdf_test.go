@@ -268,6 +268,7 @@ func TestCleanGlyphs(t *testing.T) {
 	tests := []struct{ in, want string }{
 		{"Ω µ ² ° ≤ ± · × ½ ⁻⁸ —", "Ω µ ² ° ≤ ± · × ½ ⁻⁸ —"},
 		{"中 ✓", "? ?"},
+		{"C ∈ {a, b}; ⌊x⌋; a ≪ b; Mᵀ", "C in {a, b}; floor(x); a << b; M^T"},
 		{"a\tb\x01", "a    b?"},
 	}
 	for _, tt := range tests {
