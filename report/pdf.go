@@ -442,7 +442,7 @@ type tableOpt struct {
 	noHeader bool                         // no header row (a label/value list)
 	minRowH  float64                      // minimum row height, mm (room to write by hand)
 	decorate func(i int, x, y, h float64) // draws extra marks for row i in the row's rectangle
-	title    string                          // printed with "(continued)" above the header on later pages
+	title    string                       // printed with "(continued)" above the header on later pages
 }
 
 // table draws rows under a header row that is repeated on every page the table spans. Each row keeps
