@@ -100,6 +100,8 @@ func (s *Set) Evaluate(a *hazards.Assessment) (rv *Review, err error) {
 		RulebookDigest: s.rulebookDigest,
 		PolicyDigest:   s.policyDigest,
 		RuleCount:      len(s.rules),
+		HazardClasses:  s.HazardClasses(),
+		Disabled:       s.Disabled(),
 	}
 	return rv, nil
 }

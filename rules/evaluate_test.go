@@ -113,6 +113,9 @@ func TestSiteRulebook(t *testing.T) {
 	if !ok || got.Disposition != Controls || got.Message != "The 50 J bank can be charged without the key held by the named operator." {
 		t.Errorf("got KEY-01 %v %+v, want a controls finding with its message", ok, got)
 	}
+	if len(rv.Disabled) != 1 || rv.Disabled[0].ID != "DIS-10" || len(rv.HazardClasses) == 0 {
+		t.Errorf("got review disabled %+v, %d hazard classes; want DIS-10 listed and the classes", rv.Disabled, len(rv.HazardClasses))
+	}
 	if rv.RulebookDigest == evaluate(t, def, f).RulebookDigest || len(rv.RulebookDigest) != 64 {
 		t.Errorf("got rulebook digest %q, want a SHA-256 hex digest differing from the default's", rv.RulebookDigest)
 	}

@@ -157,6 +157,12 @@ type Review struct {
 	RulebookDigest string
 	PolicyDigest   string
 	RuleCount      int // rules in force
+	// HazardClasses are the rulebook's hazard classes in the order findings are grouped, with their titles
+	// (for headings: Finding.Hazard is the class id).
+	HazardClasses []HazardClass
+	// Disabled lists the default rules a site rulebook switched off, with its reasons; outputs list them
+	// beside the policy overrides.
+	Disabled []DisabledRule
 }
 
 // Counts returns the number of findings by severity and by disposition.

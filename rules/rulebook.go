@@ -57,9 +57,9 @@ type segment struct {
 
 // DisabledRule is a default rule a site rulebook switched off, with its reason.
 type DisabledRule struct {
-	ID     string
-	Reason string
-	Origin string
+	ID     string `json:"id"`
+	Reason string `json:"reason"`
+	Origin string `json:"origin"` // the site rulebook that disabled it
 }
 
 type rulebookFile struct {

@@ -54,6 +54,20 @@ var ruleCases = []ruleCase{
 	{"DIS-09", func(f *fixture) { f.set("bank.voltage", 300); f.rig.Controls.VerifyBeforeTouch = bptr(false) }, func(f *fixture) { f.set("bank.voltage", 300) }},
 	// NFPA 79 §6.5.1: τ·ln(300/60) = 60 s · 1.61 = 97 s > 5 s.
 	{"DIS-10", func(f *fixture) { f.set("bank.voltage", 300); f.set("discharge.time_constant", 60) }, func(f *fixture) { f.set("bank.voltage", 300); f.set("discharge.time_constant", 2) }},
+	{"DIS-12", func(f *fixture) { f.set("pulse.final_bank_voltage", -80) }, func(f *fixture) { f.set("pulse.final_bank_voltage", -20) }},
+	{"DIS-13", func(f *fixture) { f.set("discharge.absorption_recovery", 100) }, func(f *fixture) { f.set("discharge.absorption_recovery", 6) }},
+	{"DIS-14", func(f *fixture) {
+		failSafeDump(f, 10)
+		f.rig.Dump.EnergyRating = f64(1)
+		f.set("dump.energy", 2.4)
+		f.set("dump.energy_fraction", 2.4)
+	},
+		func(f *fixture) {
+			failSafeDump(f, 10)
+			f.rig.Dump.EnergyRating = f64(10)
+			f.set("dump.energy", 2.4)
+			f.set("dump.energy_fraction", 0.24)
+		}},
 	{"BLD-01", func(f *fixture) { f.set("bleeder.power", 2) }, nil},
 	{"BLD-02", func(f *fixture) { f.set("bleeder.power", 0.7) }, func(f *fixture) { f.set("bleeder.power", 0.5) }},
 	{"BLD-03", func(f *fixture) { f.set("bleeder.element_voltage", 400) }, nil},
@@ -121,6 +135,7 @@ var ruleCases = []ruleCase{
 	{"GRD-02", func(f *fixture) { f.set("bank.energy", 50); f.rig.Controls.Enclosure = "partial" }, func(f *fixture) { f.set("bank.energy", 50) }},
 	{"GRD-03", func(f *fixture) { f.set("bank.energy", 200); f.rig.Controls.Interlock = bptr(false) }, func(f *fixture) { f.set("bank.energy", 50); f.rig.Controls.Interlock = bptr(false) }},
 	{"GRD-04", func(f *fixture) { f.set("bank.energy", 50); f.rig.Controls.ChargedIndicator = bptr(false) }, func(f *fixture) { f.set("bank.energy", 5); f.rig.Controls.ChargedIndicator = bptr(false) }},
+	{"GRD-06", func(f *fixture) { f.rig.Controls.RemoteFiring = f64(0.1) }, func(f *fixture) { f.rig.Controls.RemoteFiring = f64(2) }},
 	{"GRD-05", func(f *fixture) { f.shockClass(); f.rig.Controls.Supervised = bptr(false) }, func(f *fixture) { f.shockClass() }},
 	{"MEA-01", func(f *fixture) { measure(f).ChargeVoltage = f64(70) }, func(f *fixture) { measure(f).ChargeVoltage = f64(61) }},
 	{"MEA-04", func(f *fixture) { f.rig.Supply.Regulated = f64(50); measure(f).ChargeVoltage = f64(60) }, func(f *fixture) { f.rig.Supply.Regulated = f64(50); measure(f).ChargeVoltage = f64(51) }},
