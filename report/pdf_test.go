@@ -5,6 +5,7 @@ import (
 	"crypto/sha256"
 	"errors"
 	"fmt"
+	"io"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -158,7 +159,14 @@ func layoutCases(t *testing.T) []layoutCase {
 	empty.Overrides = nil
 	empty.Thresholds = nil
 	empty.Verdict = rules.Ready
-	return []layoutCase{{"demo", fixtureReview(t, 9, "Bench demo thrower")}, {"many findings and long names", long}, {"empty", empty}}
+	// Text that PDF strings and the fonts must survive: delimiters and escapes of PDF literal strings
+	// (ISO 32000-1 §7.3.4.2), characters outside the fonts and outside the BMP, control characters.
+	hostile := fixtureReview(t, 3, `Rig (with) \back\slashes) and ) unbalanced ( 😀 中文 ✓ `+"\x00\x07\t tab")
+	hostile.Assessment.Rig.Rig.Revision = `r) (\`
+	hostile.Findings[0].Message = `a (b) \c ) ( %% 😀 ∈ ⌊x⌋`
+	hostile.Assessment.Rig.Source.Raw = []byte("name: \"(x)\" \\ 😀\r\nnext: \x01\n")
+	return []layoutCase{{"demo", fixtureReview(t, 9, "Bench demo thrower")}, {"many findings and long names", long}, {"empty", empty},
+		{"hostile text", hostile}}
 }
 
 // TestPDFLayout checks the layout model of every page: every mark inside the printable area (body between
@@ -233,12 +241,15 @@ func TestPDFRefuses(t *testing.T) {
 }
 
 func TestReadFingerprint(t *testing.T) {
+	for _, c := range layoutCases(t) {
+		pdf := renderFixture(t, c.r)
+		got, err := ReadFingerprint(pdf)
+		if err != nil || got != Fingerprint(c.r, "0.1.0") {
+			t.Errorf("%s: got %q, %v, want %q", c.name, got, err, Fingerprint(c.r, "0.1.0"))
+		}
+	}
 	r := fixtureReview(t, 3, "Bench demo thrower")
 	pdf := renderFixture(t, r)
-	got, err := ReadFingerprint(pdf)
-	if err != nil || got != Fingerprint(r, "0.1.0") {
-		t.Errorf("got %q, %v, want %q", got, err, Fingerprint(r, "0.1.0"))
-	}
 	other := bytes.Replace(pdf, []byte("%%EOF"), []byte("/Keywords (chargeward-fingerprint:"+strings.Repeat("0", 64)+")\n%%EOF"), 1)
 	tests := []struct {
 		name string
@@ -277,5 +288,16 @@ func TestCleanGlyphs(t *testing.T) {
 				t.Errorf("got %q, want %q", got, tt.want)
 			}
 		})
+	}
+}
+
+// BenchmarkPDF renders the demo review (9 findings, 4 figures, 10 pages) from scratch, both passes.
+func BenchmarkPDF(b *testing.B) {
+	r := fixtureReview(b, 9, "Bench demo thrower")
+	opt := Options{Date: reviewDate, Reviewer: "J. Q. Reviewer", Version: "0.1.0"}
+	for b.Loop() {
+		if err := PDF(io.Discard, r, opt); err != nil {
+			b.Fatal(err)
+		}
 	}
 }
