@@ -7,6 +7,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"chargeward/schema"
 )
 
 // runCLI runs the program in-process with the given standard input.
@@ -147,6 +149,27 @@ func TestSchemaCommand(t *testing.T) {
 	}
 	if doc["$schema"] != "https://json-schema.org/draft/2020-12/schema" {
 		t.Errorf("got $schema %v, want the draft 2020-12 meta-schema", doc["$schema"])
+	}
+	// The printed schema, compiled on its own, must accept every demo rig.
+	compiled, err := schema.CompileSchema("https://chargeward.example/printed.json", []byte(stdout))
+	if err != nil {
+		t.Fatalf("got %v compiling the printed schema", err)
+	}
+	files, _ := filepath.Glob("../../testdata/rigs/*.yaml")
+	for _, f := range files {
+		data, _ := os.ReadFile(f)
+		root, ds := schema.ReadYAML(f, data)
+		if len(ds) == 0 {
+			ds = schema.ValidateNode(f, root, compiled)
+		}
+		if len(ds) > 0 {
+			t.Errorf("got %v for %s, want the printed schema to accept it", ds, f)
+		}
+	}
+	bad := []byte("rig: {name: x, revision: \"1\", colour: red}\nbank: {capacitance: 1 uF, voltage_rating: 1 V}\n")
+	root, _ := schema.ReadYAML("bad.yaml", bad)
+	if ds := schema.ValidateNode("bad.yaml", root, compiled); len(ds) != 1 || ds[0].Line != 1 || ds[0].Column != 31 {
+		t.Errorf("got %v, want one violation at 1:31 (the unknown key)", ds)
 	}
 }
 
