@@ -250,6 +250,9 @@ func TestReadFingerprint(t *testing.T) {
 	}
 	r := fixtureReview(t, 3, "Bench demo thrower")
 	pdf := renderFixture(t, r)
+	if v := ReadVersion(pdf); v != "0.1.0" {
+		t.Errorf("version: got %q, want %q", v, "0.1.0")
+	}
 	other := bytes.Replace(pdf, []byte("%%EOF"), []byte("/Keywords (chargeward-fingerprint:"+strings.Repeat("0", 64)+")\n%%EOF"), 1)
 	tests := []struct {
 		name string

@@ -32,3 +32,14 @@ func ReadFingerprint(pdf []byte) (string, error) {
 	}
 	return fp, nil
 }
+
+// creatorEntry is the /Creator entry PDF writes: "chargeward VERSION".
+var creatorEntry = regexp.MustCompile(`/Creator \(chargeward ([0-9A-Za-z.+-]*)\)`)
+
+// ReadVersion returns the program version recorded in a review PDF's /Creator metadata, or "" if none.
+func ReadVersion(pdf []byte) string {
+	if m := creatorEntry.FindSubmatch(pdf); m != nil {
+		return string(m[1])
+	}
+	return ""
+}

@@ -61,7 +61,21 @@ func TestReviewWritesDeterministicPDF(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		for _, w := range []string{"Verdict:", "Open-day disc thrower, bench 4", "2026-12-01", "J. Q. Reviewer"} {
+		want := []string{"Verdict:", "Open-day disc thrower, bench 4", "2026-12-01", "J. Q. Reviewer"}
+		// Every finding of the same pipeline's JSON appears in the PDF by rule id.
+		code, js, _ := runCLI(t, "", "review", rig, "--format", "json", "--date", "2026-12-01")
+		var doc struct {
+			Verdict  string
+			Findings []struct{ Rule string }
+		}
+		if err := json.Unmarshal([]byte(js), &doc); code != exitOK || err != nil || len(doc.Findings) == 0 {
+			t.Fatalf("json: got exit %d, %v, %d findings; want 0, nil, some", code, err, len(doc.Findings))
+		}
+		want = append(want, "Verdict: "+strings.ToUpper(doc.Verdict))
+		for _, f := range doc.Findings {
+			want = append(want, f.Rule)
+		}
+		for _, w := range want {
 			if !bytes.Contains(out, []byte(w)) {
 				t.Errorf("PDF text lacks %q", w)
 			}

@@ -63,8 +63,11 @@ func runVerify(args []string, e *env) error {
 		return nil
 	}
 	fmt.Fprintf(e.stdout, "MISMATCH: %s is not the review of %s as it stands\n  recorded   %s\n  recomputed %s\n"+
-		"The rig description, the rulebook, the policy or the program version (%s) differs from the one reviewed;\n"+
-		"the review does not apply. Review the rig again.\n", pdfName, rigName, recorded, now, Version)
+		"The rig description, the rulebook, the policy or the program version differs from the one reviewed;\n"+
+		"the review does not apply. Review the rig again.\n", pdfName, rigName, recorded, now)
+	if v := report.ReadVersion(pdf); v != "" && v != Version {
+		fmt.Fprintf(e.stdout, "The review was made by chargeward %s and this is %s: the version alone changes the fingerprint.\n", v, Version)
+	}
 	return exitError{exitFindings}
 }
 
