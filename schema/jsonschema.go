@@ -164,9 +164,12 @@ func toJSON(n *yaml.Node, ptr string, nodes map[string]*yaml.Node, depth int) an
 	return nil
 }
 
-func escapePointer(s string) string {
-	return strings.NewReplacer("~", "~0", "/", "~1").Replace(s)
-}
+var (
+	pointerEscaper   = strings.NewReplacer("~", "~0", "/", "~1")
+	pointerUnescaper = strings.NewReplacer("~1", "/", "~0", "~")
+)
+
+func escapePointer(s string) string { return pointerEscaper.Replace(s) }
 
 // pointerToPath turns "/supply/transformers/0/count" into "supply.transformers[0].count".
 func pointerToPath(p string) string {
@@ -175,7 +178,7 @@ func pointerToPath(p string) string {
 	}
 	var b strings.Builder
 	for _, tok := range strings.Split(strings.TrimPrefix(p, "/"), "/") {
-		tok = strings.NewReplacer("~1", "/", "~0", "~").Replace(tok)
+		tok = pointerUnescaper.Replace(tok)
 		if _, err := strconv.Atoi(tok); err == nil && b.Len() > 0 {
 			fmt.Fprintf(&b, "[%s]", tok)
 			continue

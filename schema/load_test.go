@@ -79,3 +79,16 @@ func TestLoadDiscThrowerValues(t *testing.T) {
 		t.Errorf("got dump %+v, want nil (the file states none)", r.Dump)
 	}
 }
+
+func BenchmarkLoadRig(b *testing.B) {
+	data, err := fs.ReadFile(chargeward.Demos, "testdata/rigs/disc-thrower.yaml")
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.SetBytes(int64(len(data)))
+	for b.Loop() {
+		if _, err := LoadRig("disc-thrower.yaml", data); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

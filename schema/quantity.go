@@ -239,10 +239,12 @@ func bareNumber(v float64, unit, t string) (float64, error) {
 	return v, nil
 }
 
+var unitVariants = strings.NewReplacer("\u03bc", "\u00b5", "\u2126", "\u03a9", "℃", "°C", "⋅", "·")
+
 // canonUnit rewrites the accepted variant spellings into the canonical form of the unit table: ohm → Ω,
 // μ (Greek mu) → µ (micro sign), Ω (ohm sign) → Ω, ^2 and a trailing digit → ², separators removed.
 func canonUnit(u string) string {
-	u = strings.NewReplacer("\u03bc", "\u00b5", "\u2126", "\u03a9", "℃", "°C", "⋅", "·").Replace(u)
+	u = unitVariants.Replace(u)
 	u = ohmRE.ReplaceAllString(u, "Ω")
 	u = strings.Map(func(r rune) rune {
 		switch r {
