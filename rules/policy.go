@@ -42,6 +42,16 @@ func (p *Policy) Value(key string) (float64, bool) {
 	return e.Value, true
 }
 
+// clone returns an independent copy.
+func (p *Policy) clone() *Policy {
+	c := &Policy{entries: make(map[string]*PolicyEntry, len(p.entries))}
+	for k, e := range p.entries {
+		x := *e
+		c.entries[k] = &x
+	}
+	return c
+}
+
 // Entries returns every threshold in key order.
 func (p *Policy) Entries() []PolicyEntry {
 	out := make([]PolicyEntry, 0, len(p.entries))

@@ -39,6 +39,7 @@ const (
 var (
 	defaultOnce  sync.Once
 	defaultSet   *Set
+	defaultNS    *namespace
 	defaultDiags Diagnostics
 )
 
@@ -61,15 +62,14 @@ func Default() (*Set, error) { return Load("", nil, "", nil) }
 // disabled by id, checklist items). Nil data means no site file. Every problem found is returned together
 // as Diagnostics with file, line and column.
 func Load(policyName string, policyData []byte, rulesName string, rulesData []byte) (*Set, error) {
-	// Policy: the default, then the site's overrides.
-	root, ds := readFile(DefaultPolicyName, defaultPolicy, PolicySchemaID, PolicySchema)
-	if ds != nil {
-		return nil, ds
+	// The embedded defaults are parsed and compiled once: a site policy changes values, never the keys a
+	// condition may name, so the namespace and the compiled default rules are the same for every load, and
+	// compiled programs are read-only and safe to share.
+	defaultOnce.Do(loadDefaults)
+	if defaultDiags != nil {
+		return nil, defaultDiags // the embedded files are tested; a failure here is a build defect
 	}
-	pol, ds := parsePolicy(DefaultPolicyName, root, nil)
-	if ds != nil {
-		return nil, ds
-	}
+	pol := defaultSet.policy.clone()
 	var all Diagnostics
 	if policyData != nil {
 		if policyName == "" {
@@ -78,7 +78,7 @@ func Load(policyName string, policyData []byte, rulesName string, rulesData []by
 		root, ds := readFile(policyName, policyData, PolicySchemaID, PolicySchema)
 		if ds == nil {
 			var site *Policy
-			site, ds = parsePolicy(policyName, root, pol)
+			site, ds = parsePolicy(policyName, root, defaultSet.policy)
 			if ds == nil {
 				pol = site
 			}
@@ -86,18 +86,6 @@ func Load(policyName string, policyData []byte, rulesName string, rulesData []by
 		all = append(all, ds...)
 	}
 	s := &Set{policy: pol}
-	ns := newNamespace(pol)
-
-	// The default rulebook compiles the same for every policy (a site policy changes values, never the keys
-	// a condition may name), so it is compiled once; compiled programs are read-only and safe to share.
-	defaultOnce.Do(func() {
-		d := &Set{}
-		defaultDiags = d.addRulebook(DefaultRulebookName, defaultRulebook, ns, false)
-		defaultSet = d
-	})
-	if defaultDiags != nil {
-		return nil, defaultDiags // the embedded rulebook is tested; a failure here is a build defect
-	}
 	s.rules = append([]*Rule(nil), defaultSet.rules...)
 	s.hazards = defaultSet.hazards
 	s.checklist = append([]ChecklistItem(nil), defaultSet.checklist...)
@@ -105,13 +93,34 @@ func Load(policyName string, policyData []byte, rulesName string, rulesData []by
 		if rulesName == "" {
 			rulesName = "<site rulebook>"
 		}
-		all = append(all, s.addRulebook(rulesName, rulesData, ns, true)...)
+		all = append(all, s.addRulebook(rulesName, rulesData, defaultNS, true)...)
 	}
 	if len(all) > 0 {
 		return nil, all
 	}
 	s.digest()
 	return s, nil
+}
+
+// loadDefaults parses the embedded policy and compiles the embedded rulebook.
+func loadDefaults() {
+	root, ds := readFile(DefaultPolicyName, defaultPolicy, PolicySchemaID, PolicySchema)
+	if ds != nil {
+		defaultDiags = ds
+		return
+	}
+	pol, ds := parsePolicy(DefaultPolicyName, root, nil)
+	if ds != nil {
+		defaultDiags = ds
+		return
+	}
+	defaultNS = newNamespace(pol)
+	d := &Set{policy: pol}
+	if ds := d.addRulebook(DefaultRulebookName, defaultRulebook, defaultNS, false); ds != nil {
+		defaultDiags = ds
+		return
+	}
+	defaultSet = d
 }
 
 // addRulebook reads one rulebook file into the set.
