@@ -329,6 +329,7 @@ type span struct {
 	text   string
 	rgb    [3]int
 	gap    float64 // extra space above the line, mm
+	kind   string  // layout-model kind; "" is "text"
 }
 
 func (s span) height() float64 { return s.gap + lineH(s.size) }
@@ -387,7 +388,11 @@ func (d *doc) flow(ss []span, bar *[3]int) {
 		}
 		d.setFont(s.family, s.style, s.size)
 		d.pdf.SetTextColor(s.rgb[0], s.rgb[1], s.rgb[2])
-		d.cell(s.x, d.y, s.w, lineH(s.size), s.text, "L", "text")
+		kind := s.kind
+		if kind == "" {
+			kind = "text"
+		}
+		d.cell(s.x, d.y, s.w, lineH(s.size), s.text, "L", kind)
 		d.y += lineH(s.size)
 	}
 	d.pdf.SetTextColor(0, 0, 0)
@@ -402,6 +407,9 @@ func (d *doc) section(title string) {
 
 func (d *doc) sectionTitle(title string) {
 	ss := d.spans(title, marginL, contentW, sans, "B", 15)
+	for i := range ss {
+		ss[i].kind = "heading"
+	}
 	d.flow(ss, nil)
 	d.pdf.SetDrawColor(60, 60, 60)
 	d.pdf.SetLineWidth(0.4)
@@ -413,6 +421,9 @@ func (d *doc) sectionTitle(title string) {
 func (d *doc) subheading(title string, keep float64) {
 	ss := d.spans(title, marginL, contentW, sans, "B", 11.5)
 	ss[0].gap = 3
+	for i := range ss {
+		ss[i].kind = "heading"
+	}
 	if !d.room(spansHeight(ss) + 1 + keep) {
 		d.newPage()
 	}

@@ -6,8 +6,10 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"os"
 	"os/exec"
+	"path"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -19,8 +21,10 @@ import (
 	"golang.org/x/image/font/gofont/gomonobold"
 	"golang.org/x/image/font/gofont/goregular"
 
+	"chargeward"
 	"chargeward/hazards"
 	"chargeward/rules"
+	"chargeward/schema"
 )
 
 var reviewDate = time.Date(2026, 12, 1, 0, 0, 0, 0, time.UTC)
@@ -165,8 +169,50 @@ func layoutCases(t *testing.T) []layoutCase {
 	hostile.Assessment.Rig.Rig.Revision = `r) (\`
 	hostile.Findings[0].Message = `a (b) \c ) ( %% 😀 ∈ ⌊x⌋`
 	hostile.Assessment.Rig.Source.Raw = []byte("name: \"(x)\" \\ 😀\r\nnext: \x01\n")
-	return []layoutCase{{"demo", fixtureReview(t, 9, "Bench demo thrower")}, {"many findings and long names", long}, {"empty", empty},
+	cases := []layoutCase{{"demo", fixtureReview(t, 9, "Bench demo thrower")}, {"many findings and long names", long}, {"empty", empty},
 		{"hostile text", hostile}}
+	return append(cases, demoRigCases(t)...)
+}
+
+var demoCache []layoutCase
+
+// demoRigCases runs the shipped demo rigs through the real pipeline (schema, hazards, default rules), so
+// that the layout is also checked on real findings, quantities and curves.
+func demoRigCases(t *testing.T) []layoutCase {
+	t.Helper()
+	if demoCache != nil {
+		return demoCache // rendering does not change a review; the physics runs once per test binary
+	}
+	set, err := rules.Default()
+	if err != nil {
+		t.Fatal(err)
+	}
+	names, err := fs.Glob(chargeward.Demos, "testdata/rigs/*.yaml")
+	if err != nil || len(names) == 0 {
+		t.Fatalf("demo rigs: got %v, %v", names, err)
+	}
+	var cases []layoutCase
+	for _, n := range names {
+		b, err := fs.ReadFile(chargeward.Demos, n)
+		if err != nil {
+			t.Fatal(err)
+		}
+		rig, err := schema.LoadRig(n, b)
+		if err != nil {
+			t.Fatalf("%s: %v", n, err)
+		}
+		a, err := hazards.Assess(rig, set.Targets())
+		if err != nil {
+			t.Fatalf("%s: %v", n, err)
+		}
+		rv, err := set.Evaluate(a)
+		if err != nil {
+			t.Fatalf("%s: %v", n, err)
+		}
+		cases = append(cases, layoutCase{"demo rig " + path.Base(n), rv})
+	}
+	demoCache = cases
+	return cases
 }
 
 // TestPDFLayout checks the layout model of every page: every mark inside the printable area (body between
@@ -209,6 +255,18 @@ func TestPDFLayout(t *testing.T) {
 							}
 						}
 					}
+				}
+			}
+			// No heading is the last thing on its page: each keeps with what follows.
+			for p, bs := range pages {
+				last := -1
+				for i, b := range bs {
+					if b.Kind != "header" && b.Kind != "footer" && (last < 0 || b.Y > bs[last].Y) {
+						last = i
+					}
+				}
+				if last >= 0 && bs[last].Kind == "heading" {
+					t.Errorf("page %d ends with the heading %q, want it kept with what follows", p, bs[last].Text)
 				}
 			}
 			if len(d.boxes) == 0 || len(pages) != d.pdf.PageCount() {
