@@ -50,9 +50,33 @@ type HazardClass struct {
 
 // segment is literal text or one placeholder of a message template.
 type segment struct {
-	text string
-	prog *vm.Program
-	unit string
+	text     string
+	prog     *vm.Program
+	unit     string
+	fallback string // shown when a value is absent; "(not stated)" by default
+}
+
+// splitPlaceholder splits "EXPRESSION | UNIT | FALLBACK" at its last single pipes ("||" is the expression's
+// or); UNIT and FALLBACK are optional.
+func splitPlaceholder(body string) (expression, unit, fallback string) {
+	var pipes []int
+	for i := 0; i < len(body); i++ {
+		if body[i] == '|' {
+			if i+1 < len(body) && body[i+1] == '|' {
+				i++
+				continue
+			}
+			pipes = append(pipes, i)
+		}
+	}
+	switch {
+	case len(pipes) >= 2:
+		a, b := pipes[len(pipes)-2], pipes[len(pipes)-1]
+		return body[:a], strings.TrimSpace(body[a+1 : b]), strings.TrimSpace(body[b+1:])
+	case len(pipes) == 1:
+		return body[:pipes[0]], strings.TrimSpace(body[pipes[0]+1:]), ""
+	}
+	return body, "", ""
 }
 
 // DisabledRule is a default rule a site rulebook switched off, with its reason.
@@ -263,11 +287,7 @@ func (c *ruleCompiler) compileTemplate(n *yaml.Node) ([]segment, bool) {
 			return nil, false
 		}
 		body := string(runes[j+1 : k])
-		unit := ""
-		if b := strings.LastIndex(body, "|"); b >= 0 && !strings.Contains(body[b:], "||") && (b == 0 || body[b-1] != '|') {
-			unit = strings.TrimSpace(body[b+1:])
-			body = body[:b]
-		}
+		body, unit, fallback := splitPlaceholder(body)
 		prog, errs := compileExpr(c.ns, body, false)
 		if errs != nil {
 			c.exprDiags(n, errs, j+1)
@@ -278,7 +298,7 @@ func (c *ruleCompiler) compileTemplate(n *yaml.Node) ([]segment, bool) {
 				unit = info.unit
 			}
 		}
-		segs = append(segs, segment{prog: prog, unit: unit})
+		segs = append(segs, segment{prog: prog, unit: unit, fallback: fallback})
 		i = k + 1
 	}
 	return segs, good
@@ -308,7 +328,11 @@ func render(segs []segment, env *evalEnv) string {
 		absent := len(env.missing) > 0
 		env.read, env.missing = saved, savedMissing
 		if err != nil || absent {
-			b.WriteString("(not stated)")
+			if s.fallback != "" {
+				b.WriteString(s.fallback)
+			} else {
+				b.WriteString("(not stated)")
+			}
 			continue
 		}
 		switch v := out.(type) {

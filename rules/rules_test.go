@@ -87,7 +87,7 @@ var ruleCases = []ruleCase{
 	{"BNK-05", func(f *fixture) { seriesPair(f); f.rig.Bank.Balancing.VoltageRating = f64(30) }, func(f *fixture) { seriesPair(f) }},
 	// Balancing power 63²/100 = 40 W against 1 W.
 	{"BNK-05", func(f *fixture) { seriesPair(f); f.rig.Bank.Balancing.Resistance = f64(100) }, nil},
-	// Common practice: polarised cells tolerate about 1.5 V reversed; 0.5 × 63 V is 32 V, 0.01 × 63 V is 0.63 V.
+	// Common practice: polarised cells tolerate about 1 to 1.5 V reversed (policy 1 V); 0.5 × 63 V is 32 V, 0.01 × 63 V is 0.63 V.
 	{"BNK-06", func(f *fixture) { f.rig.Bank.Dielectric = "aluminium-electrolytic"; f.set("pulse.reversal", 0.5) },
 		func(f *fixture) { f.rig.Bank.Dielectric = "aluminium-electrolytic"; f.set("pulse.reversal", 0.01) }},
 	{"BNK-07", func(f *fixture) { f.rig.Bank.PulseRated = bptr(false) }, nil},
