@@ -40,6 +40,10 @@ type CoilModel struct {
 // maxFilaments bounds the filament model (its matrix has n² entries); larger coils use Wheeler's formula.
 const maxFilaments = 3000
 
+// maxTurns bounds the turns of a coil this model accepts: far beyond any pulse coil, it keeps a misstated
+// turn count from exhausting memory.
+const maxTurns = 100000
+
 // ErrCoil is returned (wrapped) for a coil geometry that cannot exist.
 var ErrCoil = errors.New("coil geometry is impossible")
 
@@ -239,6 +243,12 @@ func assessCoil(a *Assessment) error {
 			lComp, lBasis = geo.wheeler, fmt.Sprintf("Wheeler's formula (coil.inductance_wheeler): more than %d turns for the filament model", maxFilaments)
 		}
 	}
+	if c.Inductance != nil && !(*c.Inductance > 0 && !math.IsInf(*c.Inductance, 0)) {
+		return fmt.Errorf("%w: measured inductance %g H is not positive", ErrCoil, *c.Inductance)
+	}
+	if c.Resistance != nil && !(*c.Resistance >= 0 && !math.IsInf(*c.Resistance, 0)) {
+		return fmt.Errorf("%w: measured resistance %g Ω is negative", ErrCoil, *c.Resistance)
+	}
 	switch {
 	case c.Inductance != nil:
 		cm.L = *c.Inductance
@@ -359,7 +369,10 @@ func coilWinding(a *Assessment, c *schema.Coil, dw float64) (*coilGeometry, erro
 		return nil, nil
 	}
 	n, ri := *c.Turns, *c.InnerDiameter/2
-	if ri < 0 || math.IsInf(ri, 0) {
+	if n > maxTurns {
+		return nil, fmt.Errorf("%w: %d turns is more than the %d this model accepts", ErrCoil, n, maxTurns)
+	}
+	if ri < 0 || math.IsInf(ri, 0) || math.IsNaN(ri) {
 		return nil, fmt.Errorf("%w: inner diameter %g m", ErrCoil, 2*ri)
 	}
 	switch form {

@@ -92,7 +92,9 @@ func (w wave) at(t float64) float64 {
 	case wRLCVoltage:
 		x = w.seg.voltage(t)
 	case wExp:
-		x = (w.a+w.off)*math.Exp(-(t-w.t0)/w.tau) - w.off
+		// (a + off) e^{−u} − off written as a e^{−u} + off (e^{−u} − 1): no cancellation when off ≫ a.
+		u := (t - w.t0) / w.tau
+		x = w.a*math.Exp(-u) + w.off*math.Expm1(-u)
 	case wConst:
 		x = w.constV
 	}
@@ -285,8 +287,13 @@ func RLCPulse(l LoopModel) (PulseResult, error) {
 	p.DiDtMax = first.u0 / lt
 	zero, hasZero := segmentZero(first)
 	tailEnd := func(s rlcSegment) float64 {
-		// from the later of its start and its peak, the current falls by e^{−rate·t}.
-		return s.t0 + tpk + math.Log(1/tailFraction)/s.slowRate()
+		// past the segment's own rise (the first lobe's peak, or ten fast time constants for a segment that
+		// starts with current), the slow exponential falls to tailFraction.
+		lead := tpk
+		if s.t0 > 0 {
+			lead = 10 / (s.alpha + math.Sqrt(math.Abs(s.q)))
+		}
+		return s.t0 + lead + math.Log(1/tailFraction)/s.slowRate()
 	}
 	fwd := func(s rlcSegment, t0, t1 float64, r float64) piece {
 		cur := wave{kind: wRLCCurrent, seg: s}
@@ -323,6 +330,11 @@ func RLCPulse(l LoopModel) (PulseResult, error) {
 		}
 	default:
 		return PulseResult{}, fmt.Errorf("%w: topology %q (want %s, %s or %s)", ErrLoop, l.Topology, Unidirectional, AntiparallelDiode, Crowbar)
+	}
+	for i, pc := range p.pieces {
+		if !(pc.t1 >= pc.t0) || (i > 0 && pc.t0 < p.pieces[i-1].t0) {
+			return PulseResult{}, fmt.Errorf("%w: internal event order (piece %d from %g s to %g s)", ErrLoop, i, pc.t0, pc.t1)
+		}
 	}
 	last := p.pieces[len(p.pieces)-1]
 	p.End = last.t1
@@ -402,7 +414,7 @@ func (p *PulseResult) crowbarCoil(l LoopModel, first rlcSegment, zero float64, h
 	p.pieces = append(p.pieces, piece{t0: 0, t1: tc, coil: cur, sw: cur, bank: cur, v: wave{kind: wRLCVoltage, seg: first}, rBank: l.R})
 	// Coil loop: ideal diode, i = ic e^{−(t−tc)Rc/Lc}.
 	tauC := l.CoilL / l.CoilR
-	coilEnd := tc + tauC*math.Log(ic/(tailFraction*p.PeakCurrent))
+	coilEnd := tc + tauC*math.Max(0, math.Log(ic/(tailFraction*p.PeakCurrent)))
 	coil := wave{kind: wExp, t0: tc, a: ic, tau: tauC}
 	// Bank loop: C, stray L, R, drop; it finishes its lobe.
 	var bankI, bankV wave
@@ -423,7 +435,7 @@ func (p *PulseResult) crowbarCoil(l LoopModel, first rlcSegment, zero float64, h
 		tau := l.R * l.C
 		i0 := (vc - l.Drop) / l.R
 		if i0 > 0 {
-			bankEnd = tc + tau*math.Log(i0/(tailFraction*p.PeakCurrent))
+			bankEnd = tc + tau*math.Max(0, math.Log(i0/(tailFraction*p.PeakCurrent)))
 			bankI = wave{kind: wExp, t0: tc, a: i0, tau: tau}
 			bankV = wave{kind: wExp, t0: tc, a: vc - l.Drop, off: -l.Drop, tau: tau}
 			vEnd = bankV.at(bankEnd)
@@ -495,7 +507,7 @@ func (p *PulseResult) crowbarBank(l LoopModel, first rlcSegment, zero float64, h
 	if l.Drop > 0 {
 		end = tc + tau*math.Log(1+ic/off) // i reaches zero: the switch stops conducting
 	} else {
-		end = tc + tau*math.Log(ic/(tailFraction*p.PeakCurrent))
+		end = tc + tau*math.Max(0, math.Log(ic/(tailFraction*p.PeakCurrent)))
 	}
 	loopI := wave{kind: wExp, t0: tc, a: ic, off: off, tau: tau}
 	var bankI, bankV wave
@@ -565,21 +577,34 @@ func (pc *piece) gl16(a, b float64) integrals {
 
 // adapt integrates pc over [a, b] by recursive bisection until the 16-point rule on the halves agrees with
 // the whole to tol (A²s) in every integrand.
-func (pc *piece) adapt(a, b float64, whole integrals, tol float64, depth int) integrals {
+func (pc *piece) adapt(a, b float64, whole integrals, tol float64, depth int, budget *int) integrals {
 	m := (a + b) / 2
 	l, r := pc.gl16(a, m), pc.gl16(m, b)
 	sum := l.add(r)
 	d := math.Max(math.Max(math.Abs(sum.coil-whole.coil), math.Abs(sum.sw-whole.sw)), math.Max(math.Abs(sum.diode-whole.diode), math.Abs(sum.bank-whole.bank)))
-	if d <= tol || depth >= 40 {
+	mag := math.Max(math.Max(sum.coil, sum.sw), math.Max(sum.diode, sum.bank))
+	// Converged at the absolute tolerance, or at 1e-13 of the interval's own integral (rounding: asking for
+	// less would only chase noise), or at the depth limit or the budget.
+	*budget--
+	if d <= tol || d <= 1e-13*mag || depth >= maxQuadDepth || *budget <= 0 || math.IsNaN(d) {
 		return sum
 	}
-	return pc.adapt(a, m, l, tol/2, depth+1).add(pc.adapt(m, b, r, tol/2, depth+1))
+	return pc.adapt(a, m, l, tol/2, depth+1, budget).add(pc.adapt(m, b, r, tol/2, depth+1, budget))
 }
+
+// maxQuadDepth bounds the bisection depth of the adaptive quadrature: 2^-24 of an interval is far below
+// the shortest time scale that the graded intervals start from.
+const maxQuadDepth = 24
+
+// quadBudget bounds the bisections of one pulse's quadrature (each costs two 16-point sums), so that no
+// loop can stall the review; the demo loops need a few hundred.
+const quadBudget = 200000
 
 // integrate fills the action integrals, the switch charge and the heat. The integrands are analytic on each
 // piece; adaptive 16-point Gauss–Legendre (nodes from gonum integrate/quad) converges to 1e-13 of Ipk²·End.
 func (p *PulseResult) integrate(l LoopModel) {
 	tol := 1e-13 * p.PeakCurrent * p.PeakCurrent * p.End
+	budget := quadBudget
 	var s integrals
 	for i := range p.pieces {
 		pc := &p.pieces[i]
@@ -592,7 +617,7 @@ func (p *PulseResult) integrate(l LoopModel) {
 			if pc.t1-b < h { // do not leave a sliver
 				b = pc.t1
 			}
-			s = s.add(pc.adapt(a, b, pc.gl16(a, b), tol, 0))
+			s = s.add(pc.adapt(a, b, pc.gl16(a, b), tol, 0, &budget))
 			a, h = b, 2*h
 		}
 	}

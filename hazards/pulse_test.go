@@ -334,3 +334,26 @@ func TestRLCPulseProperties(t *testing.T) {
 		})
 	}
 }
+
+// FuzzRLCPulse checks that no loop, however odd, panics or lets a NaN or Inf out: RLCPulse returns either
+// an error or finite results.
+func FuzzRLCPulse(f *testing.F) {
+	for i, l := range pulseCases() {
+		f.Add(l.C, l.V0, l.R, l.L, l.CoilL, l.CoilR, l.Drop, l.BankR, uint8(i))
+	}
+	f.Fuzz(func(t *testing.T, c, v0, r, lw, lc, rc, drop, bankR float64, topo uint8) {
+		tp := []struct{ topo, at string }{{Unidirectional, ""}, {AntiparallelDiode, ""}, {Crowbar, "coil"}, {Crowbar, "bank"}}[topo%4]
+		l := LoopModel{C: c, V0: v0, R: r, L: lw, CoilL: lc, CoilR: rc, Drop: drop, BankR: bankR, Topology: tp.topo, CrowbarAt: tp.at}
+		p, err := RLCPulse(l)
+		if err != nil {
+			return
+		}
+		if !finite(p.PeakCurrent, p.TimeToPeak, p.End, p.VEnd, p.CoilI2t, p.SwitchI2t, p.Width, p.Reversal, p.DiodeI2t) {
+			t.Fatalf("got non-finite result %+v for %+v", p, l)
+		}
+		_, i, v := p.Sample(16)
+		if !finite(i...) || !finite(v...) {
+			t.Fatalf("got non-finite samples for %+v", l)
+		}
+	})
+}
