@@ -74,7 +74,11 @@ const maxReportedRise = 2000
 // with no cooling between shots, and the skin-depth check of the DC-resistance assumption.
 func assessCoilHeating(a *Assessment, nom LoopModel, pn, pw PulseResult) error {
 	cm := a.m.coil
-	if cm == nil || !(cm.Section > 0) {
+	if cm == nil {
+		return nil
+	}
+	if !(cm.Section > 0) {
+		a.AddGap("coil.wire_gauge", "the coil's wire size is not stated: its temperature rise per shot and the shots to its insulation class cannot be computed")
 		return nil
 	}
 	m := cm.Conductor
