@@ -214,8 +214,8 @@ func (s *Set) sortFindings(fs []Finding) {
 }
 
 // buildChecklist merges the always-present items with the controls of every finding, de-duplicated by
-// text (the first phase and measured field win; the rule ids are collected), ordered by phase and, within
-// a phase, always-present items first, then in the order the findings list them.
+// text (the first phase, step and measured field win; the rule ids are collected), ordered by phase, then
+// by step within the phase, then always-present items before the findings' in the order they are listed.
 func (s *Set) buildChecklist(fs []Finding) []ChecklistItem {
 	var items []ChecklistItem
 	index := map[string]int{}
@@ -249,9 +249,14 @@ func (s *Set) buildChecklist(fs []Finding) []ChecklistItem {
 			continue
 		}
 		for _, c := range r.Controls {
-			add(ChecklistItem{Phase: c.Phase, Text: c.Text, Measured: c.Measured}, f.Rule)
+			add(ChecklistItem{Phase: c.Phase, Text: c.Text, Measured: c.Measured, Step: c.Step}, f.Rule)
 		}
 	}
-	sort.SliceStable(items, func(i, j int) bool { return items[i].Phase < items[j].Phase })
+	sort.SliceStable(items, func(i, j int) bool {
+		if items[i].Phase != items[j].Phase {
+			return items[i].Phase < items[j].Phase
+		}
+		return items[i].Step < items[j].Step
+	})
 	return items
 }

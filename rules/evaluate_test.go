@@ -265,6 +265,14 @@ func TestChecklist(t *testing.T) {
 		timed = timed || it.Measured == "time to safe voltage, s"
 		storage = storage || it.Phase == Storage
 	}
+	// Procedure order within the after-firing phase: disconnect, measure, then short.
+	pos := map[string]int{}
+	for i, it := range rv.Checklist {
+		pos[it.Text] = i
+	}
+	if !(pos["Switch off and disconnect the charger"] < pos[measure] && pos[measure] < pos["Apply the grounding hook across the bank terminals and leave it on while handling"]) {
+		t.Errorf("got after-firing order %v, want disconnect, measure, then short", pos)
+	}
 	if !timed || !storage {
 		t.Errorf("got time-to-safe field %v, storage items %v; want both always present", timed, storage)
 	}

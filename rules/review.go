@@ -123,6 +123,7 @@ type ChecklistItem struct {
 	Text     string
 	Measured string   // non-empty: a value to record here, with its unit ("bank voltage before touching, V")
 	From     []string // rule ids that require it; empty for always-present items
+	Step     int      // order within the phase (lower first; items of equal step keep the rulebook's order)
 }
 
 // Override is one policy value that a site policy changed.

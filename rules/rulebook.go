@@ -13,7 +13,11 @@ type Control struct {
 	Phase    Phase  `json:"phase"`
 	Text     string `json:"text"`
 	Measured string `json:"measured,omitempty"` // a value to record, with its unit
+	Step     int    `json:"step"`               // order within the phase; defaultStep when not given
 }
+
+// defaultStep is the order within its phase of a checklist line that states none.
+const defaultStep = 50
 
 // Rule is one compiled rule of the rulebook.
 type Rule struct {
@@ -111,6 +115,7 @@ type ruleYAML struct {
 		Phase    string `yaml:"phase"`
 		Text     string `yaml:"text"`
 		Measured string `yaml:"measured"`
+		Step     int    `yaml:"step"`
 	} `yaml:"controls"`
 	Basis   string `yaml:"basis"`
 	Unknown struct {
@@ -144,6 +149,13 @@ func parseDisposition(s string) Disposition {
 		return Advisory
 	}
 	return DispositionInvalid
+}
+
+func stepOr(step int) int {
+	if step == 0 {
+		return defaultStep
+	}
+	return step
 }
 
 func parsePhase(s string) Phase {
@@ -233,7 +245,7 @@ func (c *ruleCompiler) compileRule(node *yaml.Node) *Rule {
 		r.UnknownDisposition = parseDisposition(ry.Unknown.Disposition)
 	}
 	for _, ctl := range ry.Controls {
-		r.Controls = append(r.Controls, Control{Phase: parsePhase(ctl.Phase), Text: strings.TrimSpace(ctl.Text), Measured: ctl.Measured})
+		r.Controls = append(r.Controls, Control{Phase: parsePhase(ctl.Phase), Text: strings.TrimSpace(ctl.Text), Measured: ctl.Measured, Step: stepOr(ctl.Step)})
 	}
 	ok := true
 	if r.Applies != "" {

@@ -187,12 +187,13 @@ func (s *Set) addRulebook(name string, data []byte, ns *namespace, site bool) Di
 			Phase    string `yaml:"phase"`
 			Text     string `yaml:"text"`
 			Measured string `yaml:"measured"`
+			Step     int    `yaml:"step"`
 		}
 		if err := rf.Checklist[i].Decode(&it); err != nil {
 			c.diag(&rf.Checklist[i], CodeRuleSchema, err.Error(), "")
 			continue
 		}
-		s.checklist = append(s.checklist, ChecklistItem{Phase: parsePhase(it.Phase), Text: strings.TrimSpace(it.Text), Measured: it.Measured})
+		s.checklist = append(s.checklist, ChecklistItem{Phase: parsePhase(it.Phase), Text: strings.TrimSpace(it.Text), Measured: it.Measured, Step: stepOr(it.Step)})
 	}
 	return c.ds
 }
