@@ -186,8 +186,10 @@ func newLaunchSetup(in launchInput) (*launchSetup, error) {
 type launchRun struct {
 	C, V0 float64 // bank capacitance and voltage, F and V
 
-	Speed       float64 // m/s, projectile speed when the electromagnetic push has ended
-	Rise        float64 // m, height gained while the current flowed
+	Speed       float64 // m/s, upward projectile speed when the electromagnetic push has ended (0 if not rising)
+	VEnd        float64 // m/s, vertical velocity then (negative when falling back)
+	Rise        float64 // m, height above the start then
+	MaxH        float64 // m, greatest height above the start during the push
 	TEnd        float64 // s, end of the simulated electrical transient
 	TakeOff     float64 // s, first take-off; −1 if the force never exceeded the weight
 	PeakForce   float64 // N, largest repulsive force on the projectile
@@ -201,6 +203,7 @@ type launchRun struct {
 	Stored, Bank, LoopLoss, RingLoss, Kinetic, Potential, Field, Impact float64
 
 	Steps, Evals int
+	Phases       int // integrations started (one per event that changed the model)
 
 	// Sampled waveforms (only when recorded): time, coil current, bank voltage, height.
 	T, I, V, H []float64
@@ -218,10 +221,14 @@ const (
 
 // simulator is one run's mutable state over a setup.
 type simulator struct {
-	s         *launchSetup
-	c         float64 // bank capacitance, F
-	mode      circuitMode
-	bankOpen  bool // with the coil clamped, the bank loop's switch has opened
+	s        *launchSetup
+	c        float64 // bank capacitance, F
+	mode     circuitMode
+	bankOpen bool // with the coil clamped, the bank loop's switch has opened
+	// lobe is the direction of the current lobe in progress (+1 forward through the switch, −1 back
+	// through an antiparallel diode): the forward drop opposes it. Holding it fixed within a lobe keeps the
+	// model smooth; each current zero is an event that decides the next lobe.
+	lobe      float64
 	resting   bool // the projectile rests on its support
 	m, d      []float64
 	x, yf, rf []float64
@@ -287,12 +294,12 @@ func (sm *simulator) rhs(_ float64, y, dy []float64) {
 		var ec float64
 		switch {
 		case driven:
-			ec = vc - rc*ic - s.drop*sign(ic)
+			ec = vc - rc*ic - s.drop*sm.lobe
 			dy[0] = -ic / sm.c
-			dy[iE] = rc*ic*ic + s.drop*math.Abs(ic)
+			dy[iE] = rc*ic*ic + s.drop*sm.lobe*ic
 		case sm.mode == modeClampBank:
-			ec = -rc*ic - s.drop*sign(ic)
-			dy[iE] = rc*ic*ic + s.drop*math.Abs(ic)
+			ec = -rc*ic - s.drop*sm.lobe
+			dy[iE] = rc*ic*ic + s.drop*sm.lobe*ic
 		default: // clamped coil: ideal diode
 			ec = -rc * ic
 			dy[iE] = rc * ic * ic
@@ -368,11 +375,84 @@ func (sm *simulator) fieldEnergy(y []float64) float64 {
 	return w
 }
 
+// canRestart reports whether, at a current zero (y[1] = 0), the loop can drive current again against the
+// forward drop, and in which direction: the rate of rise a0 computed without the drop must keep its sign
+// when the drop opposes a current of that sign. If not, both the switch and the antiparallel diode block
+// and the ringing ends with the bank holding what is left.
+func (sm *simulator) canRestart(t float64, y []float64) (bool, float64) {
+	lobe := sm.lobe
+	defer func() { sm.lobe = lobe }()
+	sm.lobe = 0
+	a0 := sm.coilDiDt(t, y)
+	if a0 == 0 {
+		return false, 0
+	}
+	sg := math.Copysign(1, a0)
+	sm.lobe = sg
+	a := sm.coilDiDt(t, y)
+	return a != 0 && math.Signbit(a) == math.Signbit(a0), sg
+}
+
 // coilDiDt returns di_c/dt in state y.
 func (sm *simulator) coilDiDt(t float64, y []float64) float64 {
 	sm.rhs(t, y, sm.dy)
 	return sm.dy[1]
 }
+
+// ringTail lets the projectile's filament currents decay on their own in closed form and adds the heat to
+// each filament: with the coil open, L_f di/dt = −R i, so with u = R^{1/2} i and S = R^{-1/2} L_f R^{-1/2}
+// = Q Λ Qᵀ (Λ the modal time constants), u(t) = Q e^{−t/Λ} Qᵀ u0 and the heat in filament k is
+//
+//	∫ R_k i_k² dt = Σ_ab Q_ka Q_kb c_a c_b τ_a τ_b/(τ_a + τ_b),  c = Qᵀ u0,
+//
+// which sums to the field energy ½ i0ᵀ L_f i0 (modal decomposition of a linear R-L network; resistances
+// held at their present temperatures, the tail's own heating being a small part of the shot's).
+func (sm *simulator) ringTail(y []float64) error {
+	s := sm.s
+	n := s.n
+	iF, _, _, iT, _, _ := sm.idx()
+	rs := make([]float64, n)
+	for k := 0; k < n; k++ {
+		rs[k] = math.Sqrt(s.r20[k] * (1 + s.mat.Alpha20*(y[iT+k]-293.15)))
+	}
+	sym := mat.NewSymDense(n, nil)
+	for i := 0; i < n; i++ {
+		for j := i; j < n; j++ {
+			sym.SetSym(i, j, s.lf[i*n+j]/(rs[i]*rs[j]))
+		}
+	}
+	var eig mat.EigenSym
+	if !eig.Factorize(sym, true) {
+		return fmt.Errorf("%w: the projectile's decay modes did not converge", ErrSimulation)
+	}
+	tau := eig.Values(nil)
+	var q mat.Dense
+	eig.VectorsTo(&q)
+	c := make([]float64, n)
+	for a := 0; a < n; a++ {
+		var sum float64
+		for k := 0; k < n; k++ {
+			sum += q.At(k, a) * rs[k] * y[iF+k]
+		}
+		c[a] = sum
+	}
+	for k := 0; k < n; k++ {
+		var heat float64
+		for a := 0; a < n; a++ {
+			qa := q.At(k, a) * c[a]
+			for b := 0; b < n; b++ {
+				heat += qa * q.At(k, b) * c[b] * tau[a] * tau[b] / (tau[a] + tau[b])
+			}
+		}
+		y[iT+k] += heat / s.heat[k]
+		y[iF+k] = 0
+	}
+	return nil
+}
+
+// kineticFraction: a ringing or crowbarred run also ends once the energy still able to act on the
+// projectile is below this fraction of its kinetic energy.
+const kineticFraction = 1e-3
 
 // launchOptions bound one run.
 type launchOptions struct {
@@ -398,7 +478,7 @@ func (s *launchSetup) run(c, v0 float64, o launchOptions) (launchRun, error) {
 	}
 	n := s.n
 	dim := 6 + 2*n
-	sm := &simulator{s: s, c: c, resting: true, m: make([]float64, n), d: make([]float64, n),
+	sm := &simulator{s: s, c: c, resting: true, lobe: 1, m: make([]float64, n), d: make([]float64, n),
 		x: make([]float64, n), yf: make([]float64, n), rf: make([]float64, n), dy: make([]float64, dim)}
 	iF, iH, iV, iT, iE, iB := sm.idx()
 	y := make([]float64, dim)
@@ -443,6 +523,7 @@ func (s *launchSetup) run(c, v0 float64, o launchOptions) (launchRun, error) {
 	record(0, y)
 	observe := func(t float64, y []float64) bool {
 		record(t, y)
+		r.MaxH = math.Max(r.MaxH, y[iH])
 		if f := sm.force(y); f > r.PeakForce {
 			r.PeakForce = f
 		}
@@ -453,7 +534,10 @@ func (s *launchSetup) run(c, v0 float64, o launchOptions) (launchRun, error) {
 		case sm.mode == modeLoop:
 			return false // the switch is still closed
 		}
-		return rest < doneFraction*r.Stored
+		// The remaining energy can add at most itself to the kinetic energy: below 1e-3 of it the speed
+		// can change by no more than 5e-4 relative.
+		ke := 0.5 * s.mass * y[iV] * y[iV]
+		return rest < doneFraction*r.Stored || rest < kineticFraction*ke
 	}
 	// The largest |i_c| is where i_c di_c/dt falls through zero.
 	peak := ode.Event{
@@ -473,9 +557,11 @@ func (s *launchSetup) run(c, v0 float64, o launchOptions) (launchRun, error) {
 		evCoilZero // coil current falls to zero: the switch (or a crowbar diode) stops conducting
 		evClamp    // a crowbar diode starts to conduct
 		evBankZero // with the coil clamped, the bank loop's current falls to zero
+		evRingZero // a current zero of the ringing (antiparallel-diode) loop
 	)
 	t, first := 0.0, 0.0
 	landings := 0
+	pushOver := false
 	evs := make([]ode.Event, 0, 5)
 	kinds := make([]int, 0, 5)
 	for t < tMax {
@@ -490,6 +576,12 @@ func (s *launchSetup) run(c, v0 float64, o launchOptions) (launchRun, error) {
 		if sm.mode != modeOpen && (sm.mode != modeLoop || s.topology != AntiparallelDiode) {
 			evs = append(evs, ode.Event{G: func(_ float64, y []float64) float64 { return y[1] }, Dir: -1})
 			kinds = append(kinds, evCoilZero)
+		}
+		if sm.mode == modeLoop && s.topology == AntiparallelDiode {
+			// Every current zero of the ringing loop: it rings on only if the bank can drive the current
+			// the other way through the switch or diode drop.
+			evs = append(evs, ode.Event{G: func(_ float64, y []float64) float64 { return y[1] }, Dir: 0})
+			kinds = append(kinds, evRingZero)
 		}
 		if sm.mode == modeLoop && s.topology == Crowbar {
 			if s.crowbarAt == "bank" {
@@ -512,6 +604,7 @@ func (s *launchSetup) run(c, v0 float64, o launchOptions) (launchRun, error) {
 		})
 		r.Steps += res.Steps + res.Rejected
 		r.Evals += res.Evals
+		r.Phases++
 		if err != nil {
 			return r, fmt.Errorf("%w: %w", ErrSimulation, err)
 		}
@@ -540,6 +633,7 @@ func (s *launchSetup) run(c, v0 float64, o launchOptions) (launchRun, error) {
 			if r.SwitchOff < 0 {
 				r.SwitchOff = t
 			}
+			pushOver = true
 		case evClamp:
 			if r.SwitchOff < 0 {
 				r.SwitchOff = t
@@ -556,13 +650,34 @@ func (s *launchSetup) run(c, v0 float64, o launchOptions) (launchRun, error) {
 				sm.mode = modeClampCoil
 				y[iB] = y[1]
 			}
+		case evRingZero:
+			y[1] = 0
+			ok, sg := sm.canRestart(t, y)
+			sm.lobe = sg
+			if !ok {
+				sm.mode = modeOpen
+				if r.SwitchOff < 0 {
+					r.SwitchOff = t
+				}
+				pushOver = true
+			}
 		case evBankZero:
 			sm.bankOpen = true
 			y[iB] = 0
 		}
+		if pushOver {
+			// With no coil current there is no force (F = i_c Σ i_k ∂M_k/∂h): the flight is ballistic
+			// from here and the projectile's currents decay on their own, which ringTail settles at once.
+			if err := sm.ringTail(y); err != nil {
+				return r, err
+			}
+			break
+		}
 	}
 	r.TEnd = t
-	r.Speed = y[iV]
+	r.VEnd = y[iV]
+	r.Speed = math.Max(y[iV], 0)
+	r.MaxH = math.Max(r.MaxH, y[iH])
 	r.Rise = y[iH]
 	r.Bank = 0.5 * c * y[0] * y[0]
 	r.LoopLoss = y[iE]
@@ -596,23 +711,13 @@ func matVec(a, x, out []float64, n int) {
 	}
 }
 
-func sign(x float64) float64 {
-	switch {
-	case x > 0:
-		return 1
-	case x < 0:
-		return -1
-	}
-	return 0
-}
-
 // Filament-count defaults and bounds (see chooseFilaments).
 const (
 	defaultRadialDisc      = 16 // annuli across a solid disc
 	defaultRadialRing      = 2  // fewest annuli across a ring's width
 	maxRadial              = 48
-	maxLayers              = 6
-	maxProjectileFilaments = 128
+	maxLayers              = 4
+	maxProjectileFilaments = 64
 )
 
 // chooseFilaments returns the radial and axial division of a projectile of radial width w and thickness
@@ -818,15 +923,30 @@ func assessLaunch(a *Assessment) error {
 	}
 	worst := nom
 	hasWorst := false
+	// The worst case is the worse of the two shots for each quantity: the speed need not grow with the
+	// capacitance (a longer pulse can push a light projectile less efficiently).
 	if b := a.m.bank; b != nil && b.CWorst > 0 && b.VWorst > 0 && (b.CWorst != loop.C || b.VWorst != loop.V0) {
 		opt.record = false
 		w, err := setup.run(b.CWorst, b.VWorst, opt)
 		if err != nil {
 			return fmt.Errorf("%w (worst-case bank; allowed %v of wall time)", err, timeout)
 		}
-		worst, hasWorst = w, true
+		worst, hasWorst = worseRun(nom, w), true
 	}
 	return addLaunchQuantities(a, setup, ps, nr, nz, freq, delta, nom, worst, hasWorst)
+}
+
+// worseRun returns, quantity by quantity, the worse of two shots: the faster flight (speed, rise, timing),
+// the larger force, current and heating.
+func worseRun(a, b launchRun) launchRun {
+	w := b
+	if a.Speed > b.Speed || (a.Speed == b.Speed && a.MaxH > b.MaxH) {
+		w.Speed, w.VEnd, w.Rise, w.MaxH, w.TEnd = a.Speed, a.VEnd, a.Rise, a.MaxH, a.TEnd
+	}
+	w.PeakForce = math.Max(a.PeakForce, b.PeakForce)
+	w.PeakCurrent = math.Max(a.PeakCurrent, b.PeakCurrent)
+	w.MaxRise = math.Max(a.MaxRise, b.MaxRise)
+	return w
 }
 
 // flight is the no-drag ballistic flight after the electromagnetic push.
@@ -949,6 +1069,7 @@ func addLaunchQuantities(a *Assessment, s *launchSetup, ps projectileSpec, nr, n
 	}
 	fn := ballistic(nom.Rise, nom.Speed, nom.TEnd, clearance)
 	fw := ballistic(worst.Rise, worst.Speed, worst.TEnd, clearance)
+	fn.apex, fw.apex = math.Max(fn.apex, nom.MaxH), math.Max(fw.apex, worst.MaxH)
 	hNote := "no-drag bound (drag only lowers it)"
 	if clearance > 0 {
 		if fn.reaches {

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"math/rand"
 	"os"
 	"strings"
 	"testing"
@@ -14,6 +15,7 @@ import (
 
 	"chargeward/hazards/em"
 	"chargeward/hazards/ode"
+	"chargeward/internal/riggen"
 	"chargeward/schema"
 )
 
@@ -601,10 +603,10 @@ func TestChooseFilaments(t *testing.T) {
 	}{
 		// 55 mm disc, 3 mm thick, δ = 4 mm: layers ≤ δ/2 → 2; 16 annuli (δ-rule gives 14).
 		{"disc", 0.055, 3e-3, 4e-3, false, 0, 16, 2},
-		// 9 mm × 12 mm ring, δ = 3.43 mm: 7 layers capped at 6 (2 mm), near-square → 4.5 → 5 annuli.
-		{"ring", 9e-3, 12e-3, 3.43e-3, true, 0, 5, 6},
+		// 9 mm × 12 mm ring, δ = 3.43 mm: 7 layers capped at 4 (3 mm), near-square → 3 annuli.
+		{"ring", 9e-3, 12e-3, 3.43e-3, true, 0, 3, 4},
 		{"requested radial count", 0.055, 3e-3, 4e-3, false, 24, 24, 2},
-		{"thin skin: capped at 128 filaments", 0.055, 10e-3, 0.5e-3, false, 0, 21, 6},
+		{"thin skin: capped at 64 filaments", 0.055, 10e-3, 0.5e-3, false, 0, 16, 4},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -645,11 +647,12 @@ func ringJumperInput(t *testing.T) launchInput {
 		t.Fatal("ring jumper: projectile not readable")
 	}
 	return launchInput{coil: a.m.coil, loop: *a.m.loop, mat: ps.mat, outerR: ps.outerR, innerR: ps.innerR,
-		thick: ps.thick, gap: ps.gap, mass: ps.mass, nr: 5, nz: 6, ambient: 293.15}
+		thick: ps.thick, gap: ps.gap, mass: ps.mass, nr: 3, nz: 4, ambient: 293.15}
 }
 
 // TestLaunchRingJumper checks the ring on a solenoid with a crowbar at the bank: energy balance within
-// 0.5 % and twice the filaments changing the speed by less than 2 %.
+// 0.5 % and twice the filaments (from the 3 × 4 that chooseFilaments picks) changing the speed by less
+// than 2 %.
 func TestLaunchRingJumper(t *testing.T) {
 	in := ringJumperInput(t)
 	r1, err := mustSetup(t, in).run(in.loop.C, in.loop.V0, launchOptions{})
@@ -660,14 +663,78 @@ func TestLaunchRingJumper(t *testing.T) {
 	if e := math.Abs(sum-r1.Stored) / r1.Stored; e > 0.005 {
 		t.Errorf("got energy sum %.6g J, want the stored %.6g J within 0.5 %% (error %.3g)", sum, r1.Stored, e)
 	}
-	in.nr, in.nz = 10, 12
+	in.nr, in.nz = 6, 8
 	r2, err := mustSetup(t, in).run(in.loop.C, in.loop.V0, launchOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
 	d := math.Abs(r2.Speed-r1.Speed) / r2.Speed
-	t.Logf("ring: 5×6 %.5g m/s, 10×12 %.5g m/s (change %.3g); energy error %.2g", r1.Speed, r2.Speed, d, math.Abs(sum-r1.Stored)/r1.Stored)
+	t.Logf("ring: 3×4 %.5g m/s, 6×8 %.5g m/s (change %.3g); energy error %.2g", r1.Speed, r2.Speed, d, math.Abs(sum-r1.Stored)/r1.Stored)
 	if d >= 0.02 {
-		t.Errorf("got %.5g m/s at 5×6 and %.5g m/s at 10×12 (change %.3g), want below 2 %%", r1.Speed, r2.Speed, d)
+		t.Errorf("got %.5g m/s at 3×4 and %.5g m/s at 6×8 (change %.3g), want below 2 %%", r1.Speed, r2.Speed, d)
+	}
+}
+
+// TestRandomLaunchProperties is a property test over generated launch rigs (internal/riggen; random test
+// inputs, not expected values): every rig assesses without error in bounded time, every launch quantity is
+// finite, the efficiency lies in [0, 1), the height is at least v²/2g, the kinetic energy is ½ m v², and
+// the worst case is never below the nominal speed.
+func TestRandomLaunchProperties(t *testing.T) {
+	rng := rand.New(rand.NewSource(11))
+	n := 40
+	if testing.Short() {
+		n = 8
+	}
+	var flew int
+	var slowest time.Duration
+	for i := range n {
+		src := riggen.Rig(rng, riggen.Options{Launch: true})
+		rig, err := schema.LoadRig(fmt.Sprintf("gen-%d.yaml", i), []byte(src))
+		if err != nil {
+			t.Fatalf("rig %d: generator made an invalid rig: %v", i, err)
+		}
+		start := time.Now()
+		a, err := Assess(rig, DefaultTargets())
+		d := time.Since(start)
+		slowest = max(slowest, d)
+		if err != nil {
+			if strings.HasPrefix(err.Error(), "launch:") || strings.HasPrefix(err.Error(), "field:") {
+				t.Errorf("rig %d: got error %v\n%s", i, err, src)
+			} else {
+				t.Logf("rig %d: an earlier stage refused it: %v", i, err)
+			}
+			continue
+		}
+		if d > 2*time.Second {
+			t.Errorf("rig %d: got %v for the assessment, want under 2 s", i, d)
+		}
+		v, ok := a.Q("launch.speed")
+		if !ok {
+			continue
+		}
+		if v.Value > 0 {
+			flew++
+		}
+		eff, _ := a.Q("launch.efficiency")
+		h, _ := a.Q("launch.height")
+		ke, _ := a.Q("launch.kinetic_energy")
+		mom, _ := a.Q("launch.momentum")
+		if !(eff.Value >= 0 && eff.Value < 1) {
+			t.Errorf("rig %d: got efficiency %g, want in [0, 1)", i, eff.Value)
+		}
+		if h.Value < v.Value*v.Value/(2*gravity)*(1-1e-12) {
+			t.Errorf("rig %d: got height %g m below v²/2g = %g m", i, h.Value, v.Value*v.Value/(2*gravity))
+		}
+		// ½ m v² = ½ p v (identity; m from the momentum).
+		if !scalar.EqualWithinAbsOrRel(ke.Value, 0.5*mom.Value*v.Value, 1e-12, 1e-12) {
+			t.Errorf("rig %d: got kinetic energy %g J, want ½ p v = %g J", i, ke.Value, 0.5*mom.Value*v.Value)
+		}
+		if v.Worst != nil && *v.Worst < v.Value*(1-1e-9) {
+			t.Errorf("rig %d: got worst speed %g below nominal %g", i, *v.Worst, v.Value)
+		}
+	}
+	t.Logf("%d rigs, %d launched, slowest assessment %v", n, flew, slowest)
+	if flew == 0 {
+		t.Errorf("got no rig that launched, want some (the generator changed?)")
 	}
 }
