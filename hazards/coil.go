@@ -84,8 +84,9 @@ func windSpiral(n int, ri, ro, dw float64) (coilGeometry, error) {
 
 // windSolenoid places n turns in `layers` layers on a bore of radius ri (m), winding length b (m), radial
 // pitch pr between layers (m), wire outer diameter dw (m). Layer j has its turns at radius ri + (j + ½) pr
-// and at z = −(k + ½) b/perLayer from the face nearest the projectile. Wheeler's single-layer formula uses
-// the centre radius and b; the multi-layer one the mean radius, b and the depth c = layers·pr.
+// and at z = −dw/2 − k·b/perLayer, the end turn touching the face nearest the projectile (z = 0).
+// Wheeler's single-layer formula uses the centre radius and b; the multi-layer one the mean radius, b and
+// the depth c = layers·pr.
 func windSolenoid(n, layers int, ri, b, pr, dw float64) (coilGeometry, error) {
 	if layers < 1 || layers > n {
 		return coilGeometry{}, fmt.Errorf("%w: %d layers for %d turns", ErrCoil, layers, n)
@@ -101,7 +102,7 @@ func windSolenoid(n, layers int, ri, b, pr, dw float64) (coilGeometry, error) {
 		}
 		r := ri + (float64(j)+0.5)*pr
 		for k := 0; k < m && left > 0; k++ {
-			g.fil = append(g.fil, Filament{R: r, Z: -(float64(k) + 0.5) * pz, Turns: 1})
+			g.fil = append(g.fil, Filament{R: r, Z: -dw/2 - float64(k)*pz, Turns: 1})
 			g.wireLength += math.Hypot(2*math.Pi*r, pz)
 			left--
 		}
@@ -122,7 +123,7 @@ func windSolenoid(n, layers int, ri, b, pr, dw float64) (coilGeometry, error) {
 		g.inRange, g.accuracy = hi < 2*lo, 0.01
 		g.inputs = []Input{{"n", "coil.turns", float64(n), "1"}, {"a", "mean radius", a, "m"}, {"b", "coil.length", b, "m"}, {"c", "radial depth", c, "m"}}
 	}
-	g.formula = "filaments at r = ri + (j + ½)pr (layer j), z = −(k + ½)b/turns per layer; wire length Σ √((2πr)² + pz²)"
+	g.formula = "filaments at r = ri + (j + ½)pr (layer j), z = −d/2 − k·b/(turns per layer); wire length Σ √((2πr)² + pz²)"
 	return g, nil
 }
 
