@@ -253,18 +253,28 @@ func scalarPosition(raw []string, line, column int, style string, value string, 
 	}
 	switch style {
 	case "literal", "folded":
-		l := line + 1
+		// The block's indentation is that of its first non-blank line; deeper indentation is content.
+		indent := -1
+		for l := line + 1; l <= len(raw) && indent < 0; l++ {
+			if t := strings.TrimLeft(raw[l-1], " "); t != "" {
+				indent = len(raw[l-1]) - len(t)
+			}
+		}
+		if indent < 0 {
+			return line, column
+		}
 		rem := offset
-		for l <= len(raw) {
-			text := raw[l-1]
-			trimmed := strings.TrimLeft(text, " ")
-			indent := len([]rune(text)) - len([]rune(trimmed))
-			n := len([]rune(trimmed))
-			if rem <= n {
+		for l := line + 1; l <= len(raw); l++ {
+			content := []rune(raw[l-1])
+			if len(content) > indent {
+				content = content[indent:]
+			} else {
+				content = nil
+			}
+			if rem <= len(content) {
 				return l, indent + rem + 1
 			}
-			rem -= n + 1 // the newline or folding space
-			l++
+			rem -= len(content) + 1 // the newline or folding space
 		}
 		return line, column
 	case "quoted":

@@ -43,6 +43,7 @@ func TestBadSiteFiles(t *testing.T) {
 		{"rulebook/bad-template.yaml", CodeUnknownName, 8, 48, `did you mean "bank.voltage"?`},
 		{"rulebook/bad-section-value.yaml", CodeUnknownName, 7, 11, "group of names"},
 		{"rulebook/bad-block-condition.yaml", CodeUnknownName, 9, 7, `did you mean "rig.controls.key_switch"?`},
+		{"rulebook/bad-literal-condition.yaml", CodeUnknownName, 9, 12, `did you mean "policy.shock.energy"?`},
 		{"rulebook/bad-bad-severity.yaml", "SCHEMA-VIOLATION", 5, 15, "severity"},
 		{"rulebook/bad-no-condition.yaml", CodeRuleSchema, 2, 9, "no condition"},
 	}
