@@ -1,6 +1,7 @@
 package rules
 
 import (
+	"strings"
 	"testing"
 )
 
@@ -24,6 +25,32 @@ func TestCatalogUnits(t *testing.T) {
 		"field.peak_flux_density", "field.implant_distance"} {
 		if _, ok := quantityCatalog[n]; !ok {
 			t.Errorf("DESIGN.md §9 quantity %s is not in the catalog", n)
+		}
+	}
+}
+
+// TestEveryThresholdIsUsed: every policy entry is read by a rule, a derived limit or the physics targets,
+// so the policy holds no dead numbers.
+func TestEveryThresholdIsUsed(t *testing.T) {
+	s := mustDefault(t)
+	used := map[string]bool{
+		// Targets and TargetsFor (set.go)
+		"residual.safe_voltage": true, "residual.time_low": true, "residual.time_high": true, "residual.class_boundary": true,
+		"field.implant_limit": true, "derating.resistor_power": true, "ambient.reference": true, "launch.default_tilt": true,
+		// deriveLimits (env.go)
+		"eye.spectacles_speed": true, "eye.goggles_speed": true, "eye.faceshield_speed": true,
+		"eye.spectacles_energy": true, "eye.goggles_energy": true, "eye.faceshield_energy": true,
+	}
+	for _, r := range s.Rules() {
+		for _, e := range s.Policy().Entries() {
+			if strings.Contains(r.When+" "+r.Applies+" "+r.Message, "policy."+e.Key) {
+				used[e.Key] = true
+			}
+		}
+	}
+	for _, e := range s.Policy().Entries() {
+		if !used[e.Key] {
+			t.Errorf("policy entry %s is read by no rule, limit or target", e.Key)
 		}
 	}
 }
