@@ -868,6 +868,27 @@ func readProjectile(a *Assessment) (projectileSpec, bool) {
 // launchKinds are the rig kinds that throw a projectile: a missing projectile section is a gap for them.
 var launchKinds = map[string]bool{"disc-thrower": true, "ring-jumper": true, "coil-accelerator": true}
 
+// division is how the projectile was divided, and why.
+type division struct {
+	nr, nz      int
+	freq, delta float64 // pulse frequency (Hz) and skin depth (m) the division is based on
+}
+
+// setupFor builds the launch setup of an assessment's rig: the pulse frequency (a quarter period to the
+// coil-only peak of RLCPulse, or the undamped resonance), the skin depth there, the filament division and
+// the fixed matrices.
+func setupFor(a *Assessment, ps projectileSpec, loop LoopModel, ambient float64) (*launchSetup, division, error) {
+	freq := 1 / (2 * math.Pi * math.Sqrt((loop.L+loop.CoilL)*loop.C))
+	if pr, err := RLCPulse(loop); err == nil && pr.TimeToPeak > 0 {
+		freq = 1 / (4 * pr.TimeToPeak)
+	}
+	delta := skinDepth(ps.mat.Resistivity20, freq)
+	nr, nz := chooseFilaments(ps.outerR-ps.innerR, ps.thick, delta, ps.innerR > 0, ps.requested)
+	setup, err := newLaunchSetup(launchInput{coil: a.m.coil, loop: loop, mat: ps.mat, outerR: ps.outerR, innerR: ps.innerR,
+		thick: ps.thick, gap: ps.gap, mass: ps.mass, payload: ps.payload, nr: nr, nz: nz, ambient: ambient})
+	return setup, division{nr: nr, nz: nz, freq: freq, delta: delta}, err
+}
+
 // assessLaunch runs the launch simulation (DESIGN.md §4.6) at the nominal and the worst bank (+C tolerance,
 // worst charge voltage) and adds the launch, flight, heating and exclusion quantities.
 func assessLaunch(a *Assessment) error {
@@ -899,16 +920,7 @@ func assessLaunch(a *Assessment) error {
 		ambient = 293.15
 	}
 
-	// Pulse frequency for the skin depth: a quarter period to the coil-only peak.
-	freq := 1 / (2 * math.Pi * math.Sqrt((loop.L+loop.CoilL)*loop.C))
-	if pr, err := RLCPulse(loop); err == nil && pr.TimeToPeak > 0 {
-		freq = 1 / (4 * pr.TimeToPeak)
-	}
-	delta := skinDepth(ps.mat.Resistivity20, freq)
-	nr, nz := chooseFilaments(ps.outerR-ps.innerR, ps.thick, delta, ps.innerR > 0, ps.requested)
-
-	setup, err := newLaunchSetup(launchInput{coil: a.m.coil, loop: loop, mat: ps.mat, outerR: ps.outerR, innerR: ps.innerR,
-		thick: ps.thick, gap: ps.gap, mass: ps.mass, payload: ps.payload, nr: nr, nz: nz, ambient: ambient})
+	setup, div, err := setupFor(a, ps, loop, ambient)
 	if err != nil {
 		return err
 	}
@@ -933,7 +945,7 @@ func assessLaunch(a *Assessment) error {
 		}
 		worst, hasWorst = worseRun(nom, w), true
 	}
-	return addLaunchQuantities(a, setup, ps, nr, nz, freq, delta, nom, worst, hasWorst)
+	return addLaunchQuantities(a, setup, ps, div, nom, worst, hasWorst)
 }
 
 // worseRun returns, quantity by quantity, the worse of two shots: the faster flight (speed, rise, timing),
@@ -988,7 +1000,7 @@ func tiltedRange(v, theta, clearance float64) float64 {
 }
 
 // addLaunchQuantities turns the runs into quantities and curves.
-func addLaunchQuantities(a *Assessment, s *launchSetup, ps projectileSpec, nr, nz int, freq, delta float64, nom, worst launchRun, hasWorst bool) error {
+func addLaunchQuantities(a *Assessment, s *launchSetup, ps projectileSpec, div division, nom, worst launchRun, hasWorst bool) error {
 	r := a.Rig
 	m := s.mass
 	w := func(v float64) *float64 {
@@ -1001,7 +1013,7 @@ func addLaunchQuantities(a *Assessment, s *launchSetup, ps projectileSpec, nr, n
 		"Treatise §701; self-inductance by the GMD method, Grover 1946 ch. 13) integrated by Dormand–Prince 5(4) (Hairer, Nørsett & Wanner 1993 §II.4); " +
 		"checked by energy balance and by its distant-projectile limit, the closed-form R-L-C pulse"
 	model := fmt.Sprintf("%d × %d projectile filaments (skin depth %.3g mm at %.4g Hz); coil↔filament mutuals tabulated (cubic Hermite, error < 1e-6); %d integrator steps",
-		nr, nz, delta*1e3, freq, nom.Steps)
+		div.nr, div.nz, div.delta*1e3, div.freq, nom.Steps)
 	worstNote := "worst case at +C tolerance and the worst charge voltage"
 	if !hasWorst {
 		worstNote = "no worst-case bank stated"
@@ -1071,6 +1083,9 @@ func addLaunchQuantities(a *Assessment, s *launchSetup, ps projectileSpec, nr, n
 	fw := ballistic(worst.Rise, worst.Speed, worst.TEnd, clearance)
 	fn.apex, fw.apex = math.Max(fn.apex, nom.MaxH), math.Max(fw.apex, worst.MaxH)
 	hNote := "no-drag bound (drag only lowers it)"
+	if r.Room != nil && r.Room.LaunchAxis != "" && r.Room.LaunchAxis != "vertical" {
+		hNote += "; computed as for a vertical launch, the highest a throw at this speed can go"
+	}
 	if clearance > 0 {
 		if fn.reaches {
 			hNote += fmt.Sprintf("; it exceeds the %.3g m clearance to the ceiling, which the projectile strikes", clearance)
@@ -1108,7 +1123,7 @@ func addLaunchQuantities(a *Assessment, s *launchSetup, ps projectileSpec, nr, n
 		theta, tiltNote = math.Pi/4, "tilted launch axis with no stated tilt: the 45° range, the longest of any direction"
 		a.AddGap("room.tilt", "the launch is tilted but its angle is not stated: the exclusion radius is taken for the longest (45°) throw")
 	}
-	if theta > 0 {
+	if theta >= 0 {
 		rn := tiltedRange(nom.Speed, theta, clearance) + ps.outerR
 		rw := tiltedRange(worst.Speed, theta, clearance) + ps.outerR
 		exIn := []Input{{"v", "launch.speed", nom.Speed, "m/s"}, {"θ", "room.tilt", theta, "rad"}, {"D", "ceiling clearance", clearance, "m"}}

@@ -677,8 +677,8 @@ func TestLaunchRingJumper(t *testing.T) {
 
 // TestRandomLaunchProperties is a property test over generated launch rigs (internal/riggen; random test
 // inputs, not expected values): every rig assesses without error in bounded time, every launch quantity is
-// finite, the efficiency lies in [0, 1), the height is at least v²/2g, the kinetic energy is ½ m v², and
-// the worst case is never below the nominal speed.
+// finite, the efficiency lies in [0, 1), the height is at least v²/2g, the kinetic energy is ½ m v², the
+// worst case is never below the nominal speed, and the shot's energy balances within 0.5 %.
 func TestRandomLaunchProperties(t *testing.T) {
 	rng := rand.New(rand.NewSource(11))
 	n := 40
@@ -687,6 +687,7 @@ func TestRandomLaunchProperties(t *testing.T) {
 	}
 	var flew int
 	var slowest time.Duration
+	var worstBalance float64
 	for i := range n {
 		src := riggen.Rig(rng, riggen.Options{Launch: true})
 		rig, err := schema.LoadRig(fmt.Sprintf("gen-%d.yaml", i), []byte(src))
@@ -732,8 +733,23 @@ func TestRandomLaunchProperties(t *testing.T) {
 		if v.Worst != nil && *v.Worst < v.Value*(1-1e-9) {
 			t.Errorf("rig %d: got worst speed %g below nominal %g", i, *v.Worst, v.Value)
 		}
+		// Energy balance of the same shot, rebuilt from the assessment's models (conservation of energy).
+		ps, _ := readProjectile(a)
+		s, _, err := setupFor(a, ps, *a.m.loop, 293.15)
+		if err != nil {
+			t.Fatalf("rig %d: setup: %v", i, err)
+		}
+		r, err := s.run(a.m.loop.C, a.m.loop.V0, launchOptions{})
+		if err != nil {
+			t.Fatalf("rig %d: run: %v", i, err)
+		}
+		sum := r.Bank + r.LoopLoss + r.RingLoss + r.Kinetic + r.Potential + r.Impact + r.Field
+		if e := math.Abs(sum-r.Stored) / r.Stored; e > 0.005 {
+			t.Errorf("rig %d (%s): got energy sum %.6g J against %.6g J stored (error %.3g), want within 0.5 %%", i, a.m.loop.Topology, sum, r.Stored, e)
+		}
+		worstBalance = math.Max(worstBalance, math.Abs(sum-r.Stored)/r.Stored)
 	}
-	t.Logf("%d rigs, %d launched, slowest assessment %v", n, flew, slowest)
+	t.Logf("%d rigs, %d launched, slowest assessment %v, largest energy-balance error %.2g", n, flew, slowest, worstBalance)
 	if flew == 0 {
 		t.Errorf("got no rig that launched, want some (the generator changed?)")
 	}
