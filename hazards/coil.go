@@ -47,6 +47,12 @@ const maxTurns = 100000
 // ErrCoil is returned (wrapped) for a coil geometry that cannot exist.
 var ErrCoil = errors.New("coil geometry is impossible")
 
+// maxWindingFill is the largest winding fill (wire outer diameter / pitch available per turn) accepted. A
+// fill a little above 1 comes from rounded dimensions or a wire size stated loosely (the demo disc thrower
+// is at about 1.08); at 1.5 the turns need half as much room again as the dimensions give, which no
+// rounding explains, and the turns would overlap in the model.
+const maxWindingFill = 1.5
+
 // coilGeometry is the coil's winding as filaments, with Wheeler's estimate for the same winding.
 type coilGeometry struct {
 	fil         []Filament
@@ -204,6 +210,11 @@ func assessCoil(a *Assessment) error {
 		geo, err = coilWinding(a, c, dw)
 		if err != nil {
 			return err
+		}
+		if geo != nil && geo.fill > maxWindingFill {
+			// Turns placed closer than the wire's own diameter overlap: the filament sum and the launch
+			// model would compute a coil that cannot exist.
+			return fmt.Errorf("%w: coil.turns do not fit the stated dimensions: the wire needs %.3g times the room per turn that the geometry gives (winding fill above %g)", ErrCoil, geo.fill, maxWindingFill)
 		}
 	}
 

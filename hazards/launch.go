@@ -900,6 +900,10 @@ func assessLaunch(a *Assessment) error {
 		return nil
 	}
 	ps, ok := readProjectile(a)
+	if ps.requested > maxRadial {
+		// chooseFilaments would cap the request silently: the review would not be the one asked for.
+		return fmt.Errorf("%w: projectile.filaments requests %d annuli; the model divides a projectile into at most %d", ErrGeometry, ps.requested, maxRadial)
+	}
 	if a.m.coil == nil {
 		a.AddGap("coil", "the coil is not computable, so the launch cannot be simulated")
 		ok = false

@@ -15,15 +15,18 @@ type (
 
 // Diagnostic codes of the rulebook and policy loaders (YAML-* and SCHEMA-* come from package schema).
 const (
-	CodeExpr        = "RULE-EXPR"      // a condition or message placeholder does not compile
-	CodeUnknownName = "RULE-NAME"      // a condition names a quantity, rig field or policy key that does not exist
-	CodeDuplicate   = "RULE-DUPLICATE" // a rule id given twice
-	CodeUnknownRule = "RULE-UNKNOWN"   // a site rulebook disables a rule that does not exist
-	CodeHazard      = "RULE-HAZARD"    // a rule names a hazard class the rulebook does not define
-	CodeRuleSchema  = "RULE-SCHEMA"    // a rule is structurally incomplete (no condition, both condition and gaps)
-	CodeBasis       = "RULE-BASIS"     // a rule or policy entry has no basis
-	CodeUnknownKey  = "POLICY-KEY"     // a site policy overrides a key the reference policy does not have
-	CodeUnit        = "POLICY-UNIT"    // a site value's unit differs from the reference unit, or does not parse
+	CodeExpr        = "RULE-EXPR"        // a condition or message placeholder does not compile
+	CodeUnknownName = "RULE-NAME"        // a condition names a quantity, rig field or policy key that does not exist
+	CodeDuplicate   = "RULE-DUPLICATE"   // a rule id given twice
+	CodeUnknownRule = "RULE-UNKNOWN"     // a site rulebook disables a rule that does not exist
+	CodeDisableAll  = "RULE-DISABLE-ALL" // a site rulebook disables every default rule
+	CodeEval        = "RULE-EVAL"        // a condition compiled but failed when evaluated
+	CodeRange       = "POLICY-RANGE"     // a site threshold is zero or negative
+	CodeHazard      = "RULE-HAZARD"      // a rule names a hazard class the rulebook does not define
+	CodeRuleSchema  = "RULE-SCHEMA"      // a rule is structurally incomplete (no condition, both condition and gaps)
+	CodeBasis       = "RULE-BASIS"       // a rule or policy entry has no basis
+	CodeUnknownKey  = "POLICY-KEY"       // a site policy overrides a key the reference policy does not have
+	CodeUnit        = "POLICY-UNIT"      // a site value's unit differs from the reference unit, or does not parse
 )
 
 func errAt(file string, line, col int, code, summary, detail string) Diagnostic {

@@ -38,7 +38,7 @@ func (s *Set) Evaluate(a *hazards.Assessment) (rv *Review, err error) {
 			env.reset()
 			out, err := vm.Run(r.applies, env)
 			if err != nil {
-				return nil, fmt.Errorf("rules: %s (%s): applies: %w", r.ID, r.Origin, err)
+				return nil, evalError(r, fmt.Errorf("rules: %s (%s): applies: %w", r.ID, r.Origin, err))
 			}
 			if len(env.missing) == 0 && out == false {
 				continue
@@ -47,7 +47,7 @@ func (s *Set) Evaluate(a *hazards.Assessment) (rv *Review, err error) {
 		env.reset()
 		out, err := vm.Run(r.when, env)
 		if err != nil {
-			return nil, fmt.Errorf("rules: %s (%s): %w", r.ID, r.Origin, err)
+			return nil, evalError(r, fmt.Errorf("rules: %s (%s): %w", r.ID, r.Origin, err))
 		}
 		read := append([]string(nil), env.read...)
 		missing := append([]string(nil), env.missing...)
@@ -104,6 +104,13 @@ func (s *Set) Evaluate(a *hazards.Assessment) (rv *Review, err error) {
 		Disabled:       s.Disabled(),
 	}
 	return rv, nil
+}
+
+// evalError is a condition that compiled but failed when run (expr's memory budget, a runtime type error):
+// a diagnostic at the rule's condition in its rulebook, so a site can find it like a load error.
+func evalError(r *Rule, err error) error {
+	return Diagnostics{errAt(r.Origin, max(r.whenAt.line, 1), max(r.whenAt.col, 1), CodeEval, err.Error(),
+		"the condition compiled but failed on this rig; keep conditions to comparisons of the listed names")}
 }
 
 func (s *Set) finding(r *Rule, read []string) Finding {

@@ -148,6 +148,12 @@ func parsePolicy(name string, root *yaml.Node, reference *Policy) (*Policy, Diag
 			ds = append(ds, *d)
 			continue
 		}
+		if val <= 0 && ref.Value > 0 {
+			// Every threshold is a magnitude (a voltage, an energy, a time, a fraction of a rating): zero or
+			// less would make its rules always or never fire.
+			ds = append(ds, errAt(name, it.Value.Line, it.Value.Column, CodeRange, fmt.Sprintf("%s: %g %s is not positive", k.Value, val, it.Unit), "give a positive value in the entry's unit"))
+			continue
+		}
 		conf := it.Confidence
 		if conf == "" {
 			conf = "site"

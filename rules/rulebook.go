@@ -44,6 +44,8 @@ type Rule struct {
 
 	applies, when *vm.Program
 	message       []segment
+	// whenAt is where the rule's condition is written (its id when it has none), for evaluation errors.
+	whenAt struct{ line, col int }
 }
 
 // HazardClass is one hazard class, in the order findings are grouped.
@@ -228,6 +230,11 @@ func (c *ruleCompiler) compileRule(node *yaml.Node) *Rule {
 	r := &Rule{ID: ry.ID, Hazard: ry.Hazard, Title: ry.Title, Severity: parseSeverity(ry.Severity), Disposition: parseDisposition(ry.Disposition),
 		Gaps: ry.Gaps, Covers: ry.Covers, Message: ry.Message.Value, Basis: strings.TrimSpace(ry.Basis), Origin: c.name,
 		Applies: strings.TrimSpace(ry.Applies.Value), When: strings.TrimSpace(ry.When.Value)}
+	if n, _ := nodeAt(node, "/when"); n != nil {
+		r.whenAt.line, r.whenAt.col = n.Line, n.Column
+	} else if n, _ := nodeAt(node, "/id"); n != nil {
+		r.whenAt.line, r.whenAt.col = n.Line, n.Column
+	}
 	if r.Basis == "" {
 		n, k := nodeAt(node, "/basis")
 		if k == nil {

@@ -6,6 +6,7 @@ import (
 	"encoding/hex"
 	"encoding/json"
 	"fmt"
+	"slices"
 	"strings"
 	"sync"
 
@@ -164,6 +165,15 @@ func (s *Set) addRulebook(name string, data []byte, ns *namespace, site bool) Di
 		}
 		s.rules = kept
 		s.disabled = append(s.disabled, DisabledRule{ID: d.ID, Reason: d.Reason, Origin: name})
+	}
+	if site && len(rf.Disable) > 0 && !slices.ContainsFunc(s.rules, func(r *Rule) bool { return r.Origin == DefaultRulebookName }) {
+		// A review that judges nothing would read "ready" for any rig: refused, not passed.
+		n, key := nodeAt(root, "/disable")
+		if key != nil {
+			n = key
+		}
+		c.diag(n, CodeDisableAll, "the site rulebook disables every rule of the default rulebook",
+			"a review with no default rules would call any rig ready; disable only the rules your site replaces, each with its reason")
 	}
 	for i := range rf.Rules {
 		node := &rf.Rules[i]

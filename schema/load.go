@@ -102,6 +102,20 @@ func sortDiags(ds Diagnostics) {
 	})
 }
 
+// Upper bounds on counts (see checkRig): a thousand cells, chains or units, and ten thousand turns, are
+// far beyond a bench rig and keep every model run within seconds.
+const (
+	maxCells = 1000
+	maxTurns = 10000
+)
+
+func deref(v *float64) float64 {
+	if v == nil {
+		return 0
+	}
+	return *v
+}
+
 // checkRig applies the rules that relate fields to each other or bound a value above.
 func checkRig(r *Rig) Diagnostics {
 	var ds Diagnostics
@@ -140,6 +154,36 @@ func checkRig(r *Rig) Diagnostics {
 	if p := r.Projectile; p != nil && p.InnerDiameter != nil && p.OuterDiameter != nil && *p.InnerDiameter >= *p.OuterDiameter {
 		at("projectile.inner_diameter", "RIG-CONFLICT", "projectile.inner_diameter is not smaller than projectile.outer_diameter",
 			"A ring's bore must be smaller than its outside diameter; for a disc, leave inner_diameter out or write 0.")
+	}
+	// Counts far beyond any bench rig: the models would run for minutes (the launch simulation carries one
+	// state per filament) or divide by counts that no hand-built rig has; refused with a position rather
+	// than ended by a time limit.
+	count := func(path string, v *int, limit int) {
+		if v != nil && *v > limit {
+			at(path, "FIELD-RANGE", fmt.Sprintf("%s: %d is more than %d", path, *v, limit),
+				fmt.Sprintf("chargeward models bench rigs with at most %d here; check the value.", limit))
+		}
+	}
+	count("bank.series", r.Bank.Series, maxCells)
+	count("bank.parallel", r.Bank.Parallel, maxCells)
+	if b := r.Bleeder; b != nil {
+		count("bleeder.count", b.Count, maxCells)
+		count("bleeder.elements_in_series", b.ElementsInSeries, maxCells)
+	}
+	if s := r.Supply; s != nil {
+		for i, t := range s.Transformers {
+			count(fmt.Sprintf("supply.transformers[%d].count", i), t.Count, maxCells)
+		}
+	}
+	if c := r.Coil; c != nil {
+		count("coil.turns", c.Turns, maxTurns)
+		count("coil.layers", c.Layers, maxTurns)
+	}
+	if p, rm := r.Projectile, r.Room; p != nil && rm != nil && rm.CeilingHeight != nil && rm.LaunchAxis != "horizontal" {
+		if h := deref(p.Gap) + deref(p.Thickness); h >= *rm.CeilingHeight {
+			at("room.ceiling_height", "RIG-CONFLICT", fmt.Sprintf("the projectile at rest (gap + thickness = %.4g m) does not fit below room.ceiling_height %.4g m", h, *rm.CeilingHeight),
+				"The ceiling height is measured from the coil face; check the units of the ceiling, the gap and the thickness.")
+		}
 	}
 	if rm := r.Room; rm != nil && rm.Tilt != nil && *rm.Tilt > math.Pi/2 {
 		at("room.tilt", "UNIT-RANGE", "room.tilt is more than 90° from vertical", "Give the worst-case tilt of the launch axis from vertical, e.g. 5 deg.")

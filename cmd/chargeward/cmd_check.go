@@ -128,7 +128,7 @@ func checkOne(name string, e *env, o checkOptions) (*rules.Review, error) {
 	}
 	rv, err := judge(rig, o.set)
 	if err != nil {
-		fmt.Fprintf(e.stderr, "%s: %v\n", name, err)
+		reportPhysics(e.stderr, name, rig, err)
 		return nil, exitError{exitBadInput}
 	}
 	switch {

@@ -124,7 +124,7 @@ func buildReview(name string, site siteFiles, e *env) (*schema.Rig, *rules.Revie
 	}
 	rv, err := judge(rig, set)
 	if err != nil {
-		fmt.Fprintf(e.stderr, "%s: %v\n", name, err)
+		reportPhysics(e.stderr, name, rig, err)
 		return nil, nil, exitError{exitBadInput}
 	}
 	return rig, rv, nil

@@ -6,6 +6,7 @@ package riggen
 
 import (
 	"fmt"
+	"math"
 	"math/rand"
 	"strings"
 )
@@ -97,24 +98,32 @@ func Rig(r *rand.Rand, opt Options) string {
 	w("  di_dt_critical: %.0f A/us", between(50, 500))
 	w("  forward_drop: %.1f V", between(0, 2))
 	if opt.Launch {
+		// The winding always fits its stated dimensions (winding fill at most 1/1.02): hazards refuses a
+		// coil whose turns need more room than the geometry gives.
 		if r.Intn(2) == 0 {
+			gauge := 10 + r.Intn(8)
+			turns := 5 + r.Intn(30)
 			inner := between(5, 20)
+			build := float64(turns) * awgDiameterMM(gauge)
 			w("coil:")
 			w("  form: flat-spiral")
-			w("  turns: %d", 5+r.Intn(30))
+			w("  turns: %d", turns)
 			w("  inner_diameter: %.1f mm", inner)
-			w("  outer_diameter: %.1f mm", inner+between(40, 120))
-			w("  wire_gauge: %d", 10+r.Intn(8))
+			w("  outer_diameter: %.1f mm", inner+2*build*between(1.02, 1.6)+0.1)
+			w("  wire_gauge: %d", gauge)
 			w("  material: copper")
 			w("  insulation_class: %s", pick("A", "B", "F", "H"))
 		} else {
+			gauge := 12 + r.Intn(8)
+			layers := 1 + r.Intn(3)
+			turns := layers * (5 + r.Intn(25))
 			w("coil:")
 			w("  form: solenoid")
-			w("  turns: %d", 10+r.Intn(60))
-			w("  layers: %d", 1+r.Intn(3))
+			w("  turns: %d", turns)
+			w("  layers: %d", layers)
 			w("  inner_diameter: %.1f mm", between(20, 60))
-			w("  length: %.1f mm", between(20, 80))
-			w("  wire_gauge: %d", 12+r.Intn(8))
+			w("  length: %.1f mm", float64(turns/layers)*awgDiameterMM(gauge)*between(1.02, 1.5)+0.1)
+			w("  wire_gauge: %d", gauge)
 			w("  material: copper")
 			w("  insulation_class: %s", pick("B", "F"))
 		}
@@ -147,4 +156,9 @@ func Rig(r *rand.Rand, opt Options) string {
 	w("  exclusion_zone: %.1f m", between(0.5, 6))
 	w("  discharge_method: %s", pick("wait-for-bleeder", "dump-resistor", "shorting-stick", "touch"))
 	return b.String()
+}
+
+// awgDiameterMM is the bare diameter of AWG gauge g in mm, d = 0.127 mm × 92^((36 − g)/39) (ASTM B258).
+func awgDiameterMM(g int) float64 {
+	return 0.127 * math.Pow(92, float64(36-g)/39)
 }
