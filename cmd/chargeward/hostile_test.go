@@ -88,7 +88,7 @@ var hostileCases = []struct {
 	{"rules-template-open.yaml", "RULE-EXPR", 9, 22},
 	{"rules-type-mismatch.yaml", "RULE-EXPR", 8, 39},
 	{"rules-unknown-hazard.yaml", "RULE-HAZARD", 4, 13},
-	{"rules-unknown-name.yaml", "RULE-NAME", 8, 16},
+	{"rules-unknown-name.yaml", "RULE-NAME", 8, 11},
 	{"rules-when-not-bool.yaml", "RULE-EXPR", 8, 11},
 }
 
