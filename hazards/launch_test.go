@@ -754,3 +754,47 @@ func TestRandomLaunchProperties(t *testing.T) {
 		t.Errorf("got no rig that launched, want some (the generator changed?)")
 	}
 }
+
+// TestAssessLaunchTimeout checks that a rig that would need more wall time than the policy allows ends the
+// assessment with a clear error (wrapping ErrSimulation and ode.ErrDeadline), not a hang.
+func TestAssessLaunchTimeout(t *testing.T) {
+	a := demoAssessment(t, nil)
+	a.Targets.SimulationTimeout = 1e-9 // s: already past when the run starts
+	start := time.Now()
+	err := assessLaunch(a)
+	if !errors.Is(err, ErrSimulation) || !errors.Is(err, ode.ErrDeadline) {
+		t.Errorf("got error %v, want one wrapping %v and %v", err, ErrSimulation, ode.ErrDeadline)
+	}
+	if d := time.Since(start); d > time.Second {
+		t.Errorf("got %v before the error, want it promptly", d)
+	}
+}
+
+// TestAssessLaunchAxis checks the exclusion radius for the launch axes: a vertical launch at the stated
+// tilt, a horizontal one at the longest (45°) range v²/g, both plus the projectile's radius (projectile
+// motion without drag, v² sin 2θ / g; the ceiling is removed so that the free-flight range applies).
+func TestAssessLaunchAxis(t *testing.T) {
+	tilt := 10 * math.Pi / 180
+	tests := []struct {
+		name  string
+		edit  func(*schema.Rig)
+		theta float64
+	}{
+		{"vertical, stated tilt", func(r *schema.Rig) { r.Room.Tilt = &tilt; r.Room.CeilingHeight = nil }, tilt},
+		{"horizontal axis", func(r *schema.Rig) { r.Room.LaunchAxis = "horizontal"; r.Room.CeilingHeight = nil }, math.Pi / 4},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			a := demoAssessment(t, tc.edit)
+			if err := assessLaunch(a); err != nil {
+				t.Fatal(err)
+			}
+			v, _ := a.Q("launch.speed")
+			ex, ok := a.Q("launch.exclusion_radius")
+			want := v.Value*v.Value*math.Sin(2*tc.theta)/gravity + 0.055
+			if !ok || !scalar.EqualWithinRel(ex.Value, want, 1e-12) {
+				t.Errorf("got %v %g m, want %g m", ok, ex.Value, want)
+			}
+		})
+	}
+}

@@ -166,7 +166,8 @@ func ringInductance(rings []annulus) ([]float64, *mat.Cholesky, error) {
 // centimetres the projectile rises while the current flows). Between nodes M is the cubic Hermite
 // interpolant of the exact values and derivatives (Maxwell's formula and its analytic derivative), and
 // dM/dh is that interpolant's derivative, so that the force and the motional EMF come from one function and
-// the simulation conserves energy exactly in the limit of small steps. The interpolation error of a cubic
+// the simulation conserves energy exactly in the limit of small steps. Nodes are filled in lazily, so a
+// table (and the launchSetup holding it) is not safe for concurrent use. The interpolation error of a cubic
 // Hermite is h⁴ max|M””|/384 per interval; with Δu = 0.08 it is below 1e-6 of the largest value (TestMutualTable).
 type mutualTable struct {
 	coil  []Filament
