@@ -524,10 +524,57 @@ func TestAssessLaunchMeasured(t *testing.T) {
 	}
 }
 
-// BenchmarkLaunch times one full simulation of the demo disc thrower (setup of the fixed matrices and the
-// table, and one shot with its waveforms recorded) at the division chooseFilaments picks for it (16 × 2).
+// demoRigAssessment loads a demo rig and runs the stages before the launch, so that benchmarks and tests
+// use the coil, loop and bank models a full assessment uses.
+func demoRigAssessment(tb testing.TB, file string) *Assessment {
+	tb.Helper()
+	data, err := os.ReadFile("../testdata/rigs/" + file)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	rig, err := schema.LoadRig(file, data)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	a := &Assessment{Rig: rig, Targets: DefaultTargets()}
+	for _, s := range stages {
+		if s.name == "launch" {
+			break
+		}
+		if err := s.run(a); err != nil {
+			tb.Fatal(err)
+		}
+	}
+	if a.m.coil == nil || a.m.loop == nil {
+		tb.Fatalf("%s: the coil and pulse stages left no models", file)
+	}
+	return a
+}
+
+// BenchmarkLaunch times one full simulation of the demo disc thrower with the models of a full assessment:
+// the division, the fixed matrices and the mutual table, then one shot with its waveforms recorded.
 // Target: ≤ 50 ms per run on the project's 2-core machine.
 func BenchmarkLaunch(b *testing.B) {
+	a := demoRigAssessment(b, "disc-thrower.yaml")
+	ps, ok := readProjectile(a)
+	if !ok {
+		b.Fatal("demo projectile not readable")
+	}
+	loop := *a.m.loop
+	b.ReportAllocs()
+	for b.Loop() {
+		s, _, err := setupFor(a, ps, loop, 293.15)
+		if err != nil {
+			b.Fatal(err)
+		}
+		if _, err := s.run(loop.C, loop.V0, launchOptions{record: true}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// BenchmarkLaunchTestCoil is BenchmarkLaunch with the tests' own 28-filament demo coil (demoCoil).
+func BenchmarkLaunchTestCoil(b *testing.B) {
 	in := demoInput(16, 2)
 	b.ReportAllocs()
 	for b.Loop() {
@@ -544,7 +591,7 @@ func BenchmarkLaunch(b *testing.B) {
 // BenchmarkLaunchAssess times the whole launch stage on the demo rig: setup, the nominal and the worst-case
 // shots, the flight and the quantities.
 func BenchmarkLaunchAssess(b *testing.B) {
-	a0 := demoAssessment(b, nil)
+	a0 := demoRigAssessment(b, "disc-thrower.yaml")
 	b.ReportAllocs()
 	for b.Loop() {
 		a := &Assessment{Rig: a0.Rig, Targets: a0.Targets, m: a0.m}
