@@ -1016,7 +1016,8 @@ func addLaunchQuantities(a *Assessment, s *launchSetup, ps projectileSpec, div d
 	basis := "coupled-circuit current-filament model (coil turns and projectile annuli as coaxial circuits; Maxwell's mutual inductance, " +
 		"Treatise §701; self-inductance by the GMD method, Grover 1946 ch. 13) integrated by Dormand–Prince 5(4) (Hairer, Nørsett & Wanner 1993 §II.4); " +
 		"checked by energy balance and by its distant-projectile limit, the closed-form R-L-C pulse"
-	model := fmt.Sprintf("%d × %d projectile filaments (skin depth %.3g mm at %.4g Hz); coil↔filament mutuals tabulated (cubic Hermite, error < 1e-6); %d integrator steps",
+	model := fmt.Sprintf("%d × %d projectile filaments (skin depth %.3g mm at %.4g Hz); coil↔filament mutuals tabulated (cubic Hermite, error < 1e-6); %d integrator steps; "+
+		"coil and loop resistance held at 20 °C (the coldest conductors give the largest currents); the projectile's resistance rises with its temperature",
 		div.nr, div.nz, div.delta*1e3, div.freq, nom.Steps)
 	worstNote := "worst case at +C tolerance and the worst charge voltage"
 	if !hasWorst {
