@@ -83,8 +83,9 @@ func fzCheckLoad(t *testing.T, name string, data []byte, set *Set, err error, a 
 		if err != nil {
 			// A site rule may divide by zero or compare a string with a number: that is reported per
 			// rule, never a failure of the whole review. An evaluation error must still name the rule.
-			if !strings.HasPrefix(err.Error(), "rules: ") {
-				t.Fatalf("got evaluation error %q, want one that names the rule", err)
+			var ds Diagnostics
+			if !errors.As(err, &ds) || len(ds) != 1 || ds[0].Code != CodeEval || !strings.Contains(ds[0].Summary, "rules: ") {
+				t.Fatalf("got evaluation error %q, want one RULE-EVAL diagnostic that names the rule", err)
 			}
 			return
 		}

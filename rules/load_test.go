@@ -70,3 +70,20 @@ func TestBadSiteFiles(t *testing.T) {
 		})
 	}
 }
+
+// TestEvalErrorPositioned: a site condition that compiles but fails on a rig (ln of a negative number) is a
+// RULE-EVAL diagnostic at the condition, not a crash and not a silent pass.
+func TestEvalErrorPositioned(t *testing.T) {
+	site := []byte("rules:\n  - id: TMP-01\n    hazard: guarding\n    title: t\n    severity: NOTICE\n    disposition: advisory\n    when: ln(bank.energy) > 0\n    message: m\n    basis: common practice\n")
+	s, err := Load("", nil, "t.yaml", site)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f := baseFixture()
+	f.set("bank.energy", -1)
+	_, err = s.Evaluate(f.assessment(t))
+	var ds schema.Diagnostics
+	if !errors.As(err, &ds) || len(ds) != 1 || ds[0].Code != CodeEval || ds[0].File != "t.yaml" || ds[0].Line != 7 || ds[0].Column != 11 {
+		t.Errorf("got %v, want one RULE-EVAL diagnostic at t.yaml:7:11", err)
+	}
+}
