@@ -18,7 +18,8 @@ const rulesUsage = `Usage: chargeward rules [options]
 
 Lists every rule in force with its hazard class, severity, disposition and basis. With --policy, lists
 every threshold instead, with its value, unit, confidence and basis; values a site policy changed are shown
-beside the reference value. --names lists the names a rule condition may read.
+beside the reference value. --names lists the names a rule condition may read, --conditions shows each
+rule's conditions, and --schema prints the JSON Schema of a site rulebook or policy for editors.
 
 Site files are checked as 'chargeward check' would use them: every problem is reported at its line and
 column, and the exit status is 2.
@@ -28,6 +29,7 @@ func runRules(args []string, e *env) error {
 	fs := newFlags("rules", rulesUsage, e)
 	listPolicy := fs.Bool("policy", false, "list the thresholds instead of the rules")
 	names := fs.Bool("names", false, "list the names a condition may read, with their kind and unit")
+	conditions := fs.Bool("conditions", false, "show each rule's conditions under it")
 	sitePolicy := fs.String("site-policy", "", "site policy `FILE` to apply before listing")
 	siteRules := fs.String("site-rules", "", "site rulebook `FILE` to apply before listing")
 	format := fs.String("format", "text", "output format: text or json")
@@ -65,7 +67,7 @@ func runRules(args []string, e *env) error {
 	case *listPolicy:
 		return listThresholds(e.stdout, set, *format)
 	}
-	return listRules(e.stdout, set, *format)
+	return listRules(e.stdout, set, *format, *conditions)
 }
 
 // loadRuleSet compiles the default rulebook and policy with the site files named (either may be ""). On bad
@@ -105,7 +107,7 @@ func loadRuleSet(policyFile, rulesFile string, e *env) (*rules.Set, error) {
 	return set, nil
 }
 
-func listRules(w io.Writer, set *rules.Set, format string) error {
+func listRules(w io.Writer, set *rules.Set, format string, conditions bool) error {
 	rs := set.Rules()
 	if format == "json" {
 		type ruleJSON struct {
@@ -154,6 +156,16 @@ func listRules(w io.Writer, set *rules.Set, format string) error {
 			}
 			fmt.Fprintf(&b, "  %-7s %-7s  %-8s  %s%s\n", r.ID, r.Severity, r.Disposition, r.Title, origin)
 			fmt.Fprintf(&b, "          basis: %s\n", r.Basis)
+			if conditions {
+				if r.Applies != "" {
+					fmt.Fprintf(&b, "          applies: %s\n", oneLine(r.Applies))
+				}
+				if r.Gaps {
+					fmt.Fprintf(&b, "          when: each piece of missing information the physics records\n")
+				} else {
+					fmt.Fprintf(&b, "          when: %s\n", oneLine(r.When))
+				}
+			}
 		}
 	}
 	if d := set.Disabled(); len(d) > 0 {
@@ -225,6 +237,8 @@ func listNames(w io.Writer, set *rules.Set, format string) error {
 	_, err := io.WriteString(w, b.String())
 	return err
 }
+
+func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
 
 func writeJSON(w io.Writer, v any) error {
 	enc := json.NewEncoder(w)

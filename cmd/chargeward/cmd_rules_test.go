@@ -22,6 +22,10 @@ func TestRulesCommand(t *testing.T) {
 			t.Errorf("got listing without %s and its basis", r.ID)
 		}
 	}
+	code, stdout, _ = runCLI(t, "", "rules", "--conditions")
+	if code != exitOK || !strings.Contains(stdout, "when: worst.bank.voltage >= policy.shock.voltage && worst.bank.energy >= policy.shock.energy") {
+		t.Errorf("--conditions: got exit %d, want SHK-01's condition listed", code)
+	}
 	code, stdout, _ = runCLI(t, "", "rules", "--policy")
 	if code != exitOK {
 		t.Fatalf("got exit %d, want 0", code)
