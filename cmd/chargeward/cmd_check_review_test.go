@@ -2,8 +2,12 @@ package main
 
 import (
 	"encoding/json"
+	"os"
 	"strings"
 	"testing"
+
+	"chargeward/rules"
+	"chargeward/schema"
 )
 
 const (
@@ -101,5 +105,35 @@ func TestCheckSitePolicy(t *testing.T) {
 	code, _, _ = runCLI(t, "", "check", "--rules", "../../testdata/rulebook/site-key-switch.yaml", "--fail-on", "never", ringRig)
 	if code != exitOK {
 		t.Errorf("site rulebook: got exit %d, want 0", code)
+	}
+}
+
+// TestJudgeVoltageClass: a bank above 1000 V is assessed against the 5 min of NEC 460.28(A), one at or
+// below it against the 1 min of 460.6(A).
+func TestJudgeVoltageClass(t *testing.T) {
+	data, err := os.ReadFile(flashRig)
+	if err != nil {
+		t.Fatal(err)
+	}
+	set, err := rules.Default()
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		volts, rating string
+		want          float64
+	}{{"330 V", "360 V", 60}, {"1500 V", "2000 V", 300}} {
+		src := strings.Replace(strings.Replace(string(data), "dc_voltage: 330 V", "dc_voltage: "+c.volts, 1), "voltage_rating: 360 V", "voltage_rating: "+c.rating, 1)
+		rig, err := schema.LoadRig("rig.yaml", []byte(src))
+		if err != nil {
+			t.Fatal(err)
+		}
+		rv, err := judge(rig, set)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := rv.Assessment.Targets.TimeAllowed; got != c.want {
+			t.Errorf("%s bank: got time allowed %g s, want %g s", c.volts, got, c.want)
+		}
 	}
 }
