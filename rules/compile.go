@@ -205,6 +205,11 @@ var mathFuncs = []expr.Option{
 		}
 		return math.Log(x), nil
 	}, new(func(float64) float64)),
+	// si(value, unit) formats a number as messages do (three figures, SI prefix), for text built inside a
+	// placeholder: {stated("x") ? "at " + si(x, "m/s") : ""}.
+	expr.Function("si", func(a ...any) (any, error) {
+		return FormatQuantity(a[0].(float64), a[1].(string)), nil
+	}, new(func(float64, string) string)),
 	expr.Function("sqrt", func(a ...any) (any, error) {
 		x := a[0].(float64)
 		if !(x >= 0) || math.IsInf(x, 0) {

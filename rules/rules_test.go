@@ -147,6 +147,15 @@ var ruleCases = []ruleCase{
 		f.set("dump.decay_time_predicted", 0.012)
 	}},
 	{"MEA-03", func(f *fixture) { measure(f).LaunchHeight = f64(1) }, func(f *fixture) { measure(f).LaunchHeight = f64(0.5) }},
+	{"MEA-05", func(f *fixture) { f.set("coil.inductance_disagreement", -0.3) }, func(f *fixture) { f.set("coil.inductance_disagreement", 0.1) }},
+	{"MEA-06", func(f *fixture) { f.set("coil.resistance_disagreement", 0.5) }, func(f *fixture) { f.set("coil.resistance_disagreement", -0.15) }},
+	{"MEA-07", func(f *fixture) { f.set("coil.winding_fill", 1.08) }, func(f *fixture) { f.set("coil.winding_fill", 0.9) }},
+	{"COL-03", func(f *fixture) { f.set("coil.skin_depth_ratio", 1.5) }, func(f *fixture) { f.set("coil.skin_depth_ratio", 0.4) }},
+	{"PRJ-01", func(f *fixture) { // with the physics' ceiling figures the message says how fast it arrives
+		f.set("launch.height", 10)
+		f.set("launch.ceiling_impact_speed", 12)
+		f.set("launch.time_to_ceiling", 0.2)
+	}, nil},
 	{"INF-01", func(f *fixture) { f.rig.Bleeder = nil; failSafeDump(f, 10) }, nil},
 	{"INF-02", func(f *fixture) { f.rig.Switch = nil }, nil},
 	{"INF-03", func(f *fixture) { f.rig.Projectile = nil; f.rig.Controls.EyeProtection = "" }, func(f *fixture) { f.rig.Projectile = nil }},
