@@ -54,3 +54,15 @@ func TestEveryThresholdIsUsed(t *testing.T) {
 		}
 	}
 }
+
+// TestHostileDisableAllListsEveryRule keeps the hostile site rulebook that disables every default rule
+// (testdata/hostile, run by the command tests) in step with the rulebook: when a rule is added, add its id
+// there too.
+func TestHostileDisableAllListsEveryRule(t *testing.T) {
+	data := string(readTestdata(t, "hostile/rules-disable-all.yaml"))
+	for _, r := range mustDefault(t).Rules() {
+		if !strings.Contains(data, "{id: "+r.ID+",") {
+			t.Errorf("testdata/hostile/rules-disable-all.yaml does not disable %s; add it", r.ID)
+		}
+	}
+}
