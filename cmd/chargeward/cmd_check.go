@@ -78,8 +78,9 @@ func runCheck(args []string, e *env) error {
 	o.set = set
 	worst := exitOK
 	var docs []json.RawMessage
-	for _, name := range fs.Args() {
-		rv, err := checkOne(name, e, o)
+	pre := judgeAll(fs.Args(), o.set) // several rigs: loaded and judged on both cores, printed in order
+	for i, name := range fs.Args() {
+		rv, err := checkOne(name, e, o, pre[i])
 		if err != nil {
 			worst = max(worst, code(err, e.stderr))
 			continue
@@ -121,15 +122,18 @@ func (o checkOptions) reaches(rv *rules.Review) bool {
 }
 
 // checkOne runs the stages for one rig: load → assess → evaluate → render.
-func checkOne(name string, e *env, o checkOptions) (*rules.Review, error) {
-	rig, err := loadRig(name, e)
+func checkOne(name string, e *env, o checkOptions, pre *judged) (*rules.Review, error) {
+	var rig *schema.Rig
+	var rv *rules.Review
+	var err error
+	if pre != nil {
+		e.stderr.Write(pre.stderr.Bytes())
+		rig, rv, err = pre.rig, pre.rv, pre.err
+	} else {
+		rig, rv, err = loadAndJudge(name, e, o.set)
+	}
 	if err != nil {
 		return nil, err
-	}
-	rv, err := judge(rig, o.set)
-	if err != nil {
-		reportPhysics(e.stderr, name, rig, err)
-		return nil, exitError{exitBadInput}
 	}
 	switch {
 	case o.many && o.format == "json":
