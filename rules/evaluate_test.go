@@ -378,3 +378,24 @@ func TestFormatQuantity(t *testing.T) {
 		}
 	}
 }
+
+// TestSiteChecklistAndUnknownControls: a site rulebook's checklist items join the always-present ones, and a
+// rule that could not be checked still puts its controls on the checklist (treated as if it applied).
+func TestSiteChecklistAndUnknownControls(t *testing.T) {
+	site := []byte("checklist:\n  - {phase: storage, text: \"Log the bank's state in the lab book\", step: 5}\n")
+	s, err := Load("", nil, "site.yaml", site)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f := baseFixture()
+	f.rig.Room.CeilingHeight = nil // PRJ-01 cannot be checked
+	rv := evaluate(t, s, f)
+	var logged, lowered bool
+	for _, it := range rv.Checklist {
+		logged = logged || (it.Text == "Log the bank's state in the lab book" && it.Phase == Storage && len(it.From) == 0)
+		lowered = lowered || (len(it.From) == 1 && it.From[0] == "PRJ-01")
+	}
+	if !logged || !lowered {
+		t.Errorf("got site item %v, PRJ-01 control %v; want both on the checklist", logged, lowered)
+	}
+}
