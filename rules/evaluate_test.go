@@ -399,3 +399,25 @@ func TestSiteChecklistAndUnknownControls(t *testing.T) {
 		t.Errorf("got site item %v, PRJ-01 control %v; want both on the checklist", logged, lowered)
 	}
 }
+
+// TestConcurrentEvaluate: one Set judges several assessments at once (run with -race to check sharing).
+func TestConcurrentEvaluate(t *testing.T) {
+	s := mustDefault(t)
+	want := evaluate(t, s, baseFixture())
+	done := make(chan *Review, 8)
+	for i := 0; i < 8; i++ {
+		a := baseFixture().assessment(t)
+		go func() {
+			rv, err := s.Evaluate(a)
+			if err != nil {
+				rv = nil
+			}
+			done <- rv
+		}()
+	}
+	for i := 0; i < 8; i++ {
+		if rv := <-done; rv == nil || !reflect.DeepEqual(rv.Findings, want.Findings) || !reflect.DeepEqual(rv.Checklist, want.Checklist) {
+			t.Errorf("got a different review from a concurrent evaluation, want identical")
+		}
+	}
+}
