@@ -173,15 +173,6 @@ var limitCatalog = map[string]nameInfo{
 	"limit.decay_predicted":  {kindNum, "s"},   // predicted time for the measured decay, nearest path
 }
 
-// quantityRoots are the first segments of quantity names.
-func quantityRoots() map[string]bool {
-	r := map[string]bool{}
-	for n := range quantityCatalog {
-		r[n[:strings.IndexByte(n, '.')]] = true
-	}
-	return r
-}
-
 // rigFacts lists every leaf of schema.Rig by its YAML path, prefixed "rig.", with its kind and unit, and
 // every section (pointer to struct) as a prefix that stated() accepts.
 func rigFacts() (leaves map[string]nameInfo, sections map[string]bool) {

@@ -3,7 +3,6 @@ package rules
 import (
 	"fmt"
 	"math"
-	"sort"
 	"strings"
 
 	"gopkg.in/yaml.v3"
@@ -170,9 +169,7 @@ func parsePolicy(name string, root *yaml.Node, reference *Policy) (*Policy, Diag
 // overrides lists the site's changes to the reference policy, in key order.
 func (p *Policy) overrides() []Override {
 	var out []Override
-	keys := sortedKeys(p.entries)
-	sort.Strings(keys)
-	for _, k := range keys {
+	for _, k := range sortedKeys(p.entries) {
 		e := p.entries[k]
 		if !e.Overridden {
 			continue
