@@ -753,7 +753,7 @@ func TestRandomLaunchProperties(t *testing.T) {
 			}
 			continue
 		}
-		if d > 2*time.Second {
+		if d > 2*time.Second && !raceDetector {
 			t.Errorf("rig %d: got %v for the assessment, want under 2 s", i, d)
 		}
 		v, ok := a.Q("launch.speed")
