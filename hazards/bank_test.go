@@ -222,12 +222,12 @@ func elDiscThrower() *schema.Rig {
 func elFlashBank() *schema.Rig {
 	return &schema.Rig{
 		Rig: schema.Info{Name: "Photoflash trainer, kit 7", Revision: "1.2"},
-		Supply: &schema.Supply{Kind: "dc-supply", DCVoltage: elF(330), DCCurrent: elF(5e-3), ChargingResistor: elF(4.7e3), ChargingResistorPower: elF(1),
+		Supply: &schema.Supply{Kind: "dc-supply", DCVoltage: elF(300), DCCurrent: elF(5e-3), ChargingResistor: elF(4.7e3), ChargingResistorPower: elF(1),
 			Isolation: "interlocked"},
 		Bank: schema.Bank{Capacitance: elF(47e-6), CapacitanceTolerance: elF(0.10), VoltageRating: elF(360), Dielectric: "aluminium-electrolytic",
 			ESR: elF(1.2), PeakCurrent: elF(200), Series: elI(1), Parallel: elI(2), PulseRated: elB(true)},
 		Bleeder:      &schema.Bleeder{Resistance: elF(220e3), Count: elI(1), ElementsInSeries: elI(1), PowerRating: elF(1), VoltageRating: elF(500), Tolerance: elF(0.01)},
-		Measurements: &schema.Measurements{ChargeVoltage: elF(328), DecayTime: elF(40), DecayTo: elF(50)},
+		Measurements: &schema.Measurements{ChargeVoltage: elF(298), DecayTime: elF(37), DecayTo: elF(50)},
 	}
 }
 

@@ -67,8 +67,9 @@ func TestAssessCoilPancake(t *testing.T) {
 	if !scalar.EqualWithinRel(lf, lw, 0.05) {
 		t.Errorf("got filament sum %g H, want Wheeler %g H within 5 %% (Wheeler 1928, c > 0.2a)", lf, lw)
 	}
-	// R20 = ρ20 ℓ / S and m = ρm S ℓ, with S from AWG 12 (ASTM B258): identities of the model, rounding only.
-	d, _ := AWGDiameter(12)
+	// R20 = ρ20 ℓ / S and m = ρm S ℓ, with S from the rig's AWG 14 (ASTM B258): identities of the model,
+	// rounding only.
+	d, _ := AWGDiameter(14)
 	s := math.Pi * d * d / 4
 	ell := pcQ(t, a, "coil.wire_length").Value
 	if r := pcQ(t, a, "coil.resistance").Value; !scalar.EqualWithinRel(r, Copper.Resistivity20*ell/s, 1e-12) {

@@ -145,14 +145,20 @@ func TestAssessPulseGaps(t *testing.T) {
 	}
 }
 
-// TestAssessPulseBounds checks the flash-bank demo (no coil, no stray inductance): the pulse quantities are
-// the upper bounds (V0 − Vd)/R and ½CV0²/R.
+// TestAssessPulseBounds checks the flash-bank demo with its stray inductance removed (no coil, no inductance):
+// the pulse quantities are the upper bounds (V0 − Vd)/R and ½CV0²/R.
 func TestAssessPulseBounds(t *testing.T) {
-	_, a := pcLoadDemo(t, "flash-bank")
+	rig, _ := pcLoadDemo(t, "flash-bank")
+	rig.Wiring.StrayInductance = nil
+	a, err := Assess(rig, DefaultTargets())
+	if err != nil {
+		t.Fatal(err)
+	}
 	rt := pcQ(t, a, "loop.resistance").Value
 	v := a.m.bank.V
-	if got := pcQ(t, a, "pulse.peak_current").Value; !scalar.EqualWithinRel(got, v/rt, 1e-12) {
-		t.Errorf("got %g A, want V0/R = %g A", got, v/rt)
+	vd := *rig.Switch.Drop
+	if got := pcQ(t, a, "pulse.peak_current").Value; !scalar.EqualWithinRel(got, (v-vd)/rt, 1e-12) {
+		t.Errorf("got %g A, want (V0 − Vd)/R = %g A", got, (v-vd)/rt)
 	}
 	if got := pcQ(t, a, "pulse.i2t").Value; !scalar.EqualWithinRel(got, 0.5*a.m.bank.C*v*v/rt, 1e-12) {
 		t.Errorf("got %g A²s, want ½CV0²/R", got)

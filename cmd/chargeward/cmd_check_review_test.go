@@ -122,8 +122,8 @@ func TestJudgeVoltageClass(t *testing.T) {
 	for _, c := range []struct {
 		volts, rating string
 		want          float64
-	}{{"330 V", "360 V", 60}, {"1500 V", "2000 V", 300}} {
-		src := strings.Replace(strings.Replace(string(data), "dc_voltage: 330 V", "dc_voltage: "+c.volts, 1), "voltage_rating: 360 V", "voltage_rating: "+c.rating, 1)
+	}{{"300 V", "360 V", 60}, {"1500 V", "2000 V", 300}} {
+		src := strings.Replace(strings.Replace(string(data), "dc_voltage: 300 V", "dc_voltage: "+c.volts, 1), "voltage_rating: 360 V", "voltage_rating: "+c.rating, 1)
 		rig, err := schema.LoadRig("rig.yaml", []byte(src))
 		if err != nil {
 			t.Fatal(err)
