@@ -907,6 +907,10 @@ func assessLaunch(a *Assessment) error {
 	if a.m.coil == nil {
 		a.AddGap("coil", "the coil is not computable, so the launch cannot be simulated")
 		ok = false
+	} else if len(a.m.coil.Filaments) == 0 {
+		// A measured coil (inductance and resistance only) has no winding to couple to the projectile.
+		a.AddGap("coil.turns", "the coil is given by its measured inductance and resistance only: without its turns and dimensions the launch cannot be simulated")
+		ok = false
 	}
 	if a.m.loop == nil {
 		a.AddGap("switch", "the discharge loop is not computable, so the launch cannot be simulated")

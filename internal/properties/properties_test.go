@@ -125,7 +125,7 @@ func generate(t *testing.T, seed int64, n int) []generated {
 	r := rand.New(rand.NewSource(seed))
 	var out []generated
 	for i := range n {
-		g := generated{name: fmt.Sprintf("gen-%d-%d.yaml", seed, i), src: riggen.Rig(r, riggen.Options{Launch: i%3 != 2})}
+		g := generated{name: fmt.Sprintf("gen-%d-%d.yaml", seed, i), src: riggen.Rig(r, riggen.Options{Launch: i%3 != 2, Extras: i%2 == 1})}
 		g.rig, err = schema.LoadRig(g.name, []byte(g.src))
 		if err != nil {
 			t.Fatalf("%s: the generator made a rig the loader refuses: %v\n%s", g.name, err, g.src)

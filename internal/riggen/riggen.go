@@ -15,6 +15,10 @@ import (
 type Options struct {
 	// Launch includes a coil and a projectile (and so the launch simulation).
 	Launch bool
+	// Extras adds, at random, the less common parts of a description: a rig kind, mains tolerance and a
+	// transformer, bleeder tolerance, a measured coil, a payload, a tilted launch axis and measurements.
+	// Off, the generator draws exactly the sequence it always did, so seeded tests elsewhere keep their rigs.
+	Extras bool
 }
 
 // Rig returns the YAML text of one random rig drawn from r.
@@ -28,6 +32,9 @@ func Rig(r *rand.Rand, opt Options) string {
 	w("  name: Generated rig %d", r.Intn(1_000_000))
 	w("  revision: \"%d\"", 1+r.Intn(9))
 	w("  audience_distance: %.2f m", between(0.5, 8))
+	if opt.Extras && r.Intn(2) == 0 {
+		w("  kind: %s", pick("disc-thrower", "ring-jumper", "magnetizer", "cd-welder", "flash-bank", "coil-accelerator", "other"))
+	}
 
 	series := 1 + r.Intn(3)
 	rating := pick("63", "160", "250", "400", "450", "500", "800")
@@ -45,8 +52,17 @@ func Rig(r *rand.Rand, opt Options) string {
 		mains := pick("120", "230", "240")
 		w("  mains_voltage: %s V", mains)
 		w("  mains_frequency: %s Hz", pick("50", "60"))
-		w("  rectifier: %s", pick("half-wave", "bridge", "doubler"))
+		rect := pick("half-wave", "bridge", "doubler")
+		w("  rectifier: %s", rect)
 		w("  regulated_voltage: %.1f V", chargeV)
+		if opt.Extras && r.Intn(2) == 0 {
+			w("  mains_tolerance: %.0f %%", between(5, 15))
+			// A step-up or step-down transformer whose secondary peak, rectified, reaches the charge voltage.
+			k := map[string]float64{"half-wave": 1, "bridge": 1, "doubler": 2}[rect]
+			w("  transformers:")
+			w("    - {primary_voltage: %s V, secondary_voltage: %.1f V, regulation: %.0f %%, rating: %.0f VA}",
+				mains, chargeV/(k*math.Sqrt2)*between(1.0, 1.2)+2, between(3, 12), between(20, 500))
+		}
 	}
 	w("  charging_resistor: %.0f Ω", between(100, 50_000))
 	w("  isolation: %s", pick("interlocked", "unplugged", "switched", "stays-connected"))
@@ -77,6 +93,9 @@ func Rig(r *rand.Rand, opt Options) string {
 		w("  elements_in_series: %d", 1+r.Intn(3))
 		w("  power_rating: %.1f W", between(0.25, 10))
 		w("  voltage_rating: %.0f V", between(200, 1500))
+		if opt.Extras && r.Intn(2) == 0 {
+			w("  tolerance: %.0f %%", between(1, 10))
+		}
 	}
 	if r.Intn(3) == 0 {
 		w("dump:")
@@ -100,7 +119,14 @@ func Rig(r *rand.Rand, opt Options) string {
 	if opt.Launch {
 		// The winding always fits its stated dimensions (winding fill at most 1/1.02): hazards refuses a
 		// coil whose turns need more room than the geometry gives.
-		if r.Intn(2) == 0 {
+		if opt.Extras && r.Intn(4) == 0 {
+			w("coil:")
+			w("  form: measured")
+			w("  measured_inductance: %.1f uH", between(5, 200))
+			w("  measured_resistance: %.1f mΩ", between(5, 300))
+			w("  material: copper")
+			w("  insulation_class: %s", pick("B", "F"))
+		} else if r.Intn(2) == 0 {
 			gauge := 10 + r.Intn(8)
 			turns := 5 + r.Intn(30)
 			inner := between(5, 20)
@@ -142,10 +168,18 @@ func Rig(r *rand.Rand, opt Options) string {
 		}
 		w("  thickness: %.1f mm", between(1, 10))
 		w("  gap: %.1f mm", between(0.5, 5))
+		if opt.Extras && r.Intn(3) == 0 {
+			w("  payload_mass: %.0f g", between(1, 50))
+		}
 	}
 	w("room:")
 	w("  ceiling_height: %.1f m", between(2.2, 8))
-	w("  launch_axis: vertical")
+	if opt.Extras && r.Intn(3) == 0 {
+		w("  launch_axis: tilted")
+		w("  tilt: %.1f deg", between(0, 15))
+	} else {
+		w("  launch_axis: vertical")
+	}
 	w("controls:")
 	w("  enclosure: %s", pick("none", "partial", "full"))
 	w("  interlock: %v", r.Intn(2) == 0)
@@ -155,6 +189,14 @@ func Rig(r *rand.Rand, opt Options) string {
 	w("  hearing_protection: %v", r.Intn(2) == 0)
 	w("  exclusion_zone: %.1f m", between(0.5, 6))
 	w("  discharge_method: %s", pick("wait-for-bleeder", "dump-resistor", "shorting-stick", "touch"))
+	if opt.Extras && r.Intn(2) == 0 {
+		w("measurements:")
+		w("  charge_voltage: %.1f V", chargeV*between(0.95, 1.02))
+		w("  decay_time: %.1f s", between(1, 120))
+		if opt.Launch {
+			w("  launch_height: %.2f m", between(0.05, 2))
+		}
+	}
 	return b.String()
 }
 

@@ -12,7 +12,7 @@ import (
 func TestGeneratedRigsLoad(t *testing.T) {
 	r := rand.New(rand.NewSource(1))
 	for i := 0; i < 200; i++ {
-		src := Rig(r, Options{Launch: i%2 == 0})
+		src := Rig(r, Options{Launch: i%2 == 0, Extras: i%4 >= 2})
 		if _, err := schema.LoadRig("gen.yaml", []byte(src)); err != nil {
 			t.Fatalf("rig %d does not load: %v\n%s", i, err, src)
 		}
