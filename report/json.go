@@ -18,6 +18,7 @@ type jsonReview struct {
 	Gaps        []jsonGap               `json:"gaps"`
 	Checklist   []jsonChecklistItem     `json:"checklist"`
 	Overrides   []jsonOverride          `json:"overrides"`
+	Disabled    []rules.DisabledRule    `json:"disabled_rules"`
 	Thresholds  []jsonThreshold         `json:"thresholds"`
 	Rulebook    string                  `json:"rulebook_digest"`
 	Policy      string                  `json:"policy_digest"`
@@ -123,6 +124,7 @@ func JSON(w io.Writer, r *rules.Review, opt ...Options) error {
 		Gaps:       []jsonGap{},
 		Checklist:  []jsonChecklistItem{},
 		Overrides:  []jsonOverride{},
+		Disabled:   append([]rules.DisabledRule{}, r.Disabled...),
 		Thresholds: []jsonThreshold{},
 		Rulebook:   r.RulebookDigest,
 		Policy:     r.PolicyDigest,

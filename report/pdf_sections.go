@@ -174,8 +174,8 @@ func (d *doc) findings() {
 	d.paragraph(fmt.Sprintf("%d findings from %d rules in force: %s. Disposition must-fix: do not operate until "+
 		"resolved; controls: operate only with the listed controls in place; advisory: no condition on operation.",
 		len(d.r.Findings), d.r.RuleCount, countsLine(d.r)), "", 9)
-	for _, g := range groupFindings(d.r.Findings) {
-		d.subheading(fmt.Sprintf("%s (%d)", capital(g.hazard), len(g.findings)), spansHeight(d.findingSpans(g.findings[0])))
+	for _, g := range groupFindings(d.r) {
+		d.subheading(fmt.Sprintf("%s (%d)", capital(g.title), len(g.findings)), spansHeight(d.findingSpans(g.findings[0])))
 		for _, f := range g.findings {
 			bar := severityRGB(f.Severity)
 			d.flow(d.findingSpans(f), &bar)
@@ -433,6 +433,15 @@ func (d *doc) appendix() {
 		}
 		d.table([]column{{"policy key", 50, mono, "", 7.5}, {"site value", 22, sans, "B", 8.5}, {"reference", 22, sans, "", 8.5},
 			{"less strict", 18, sans, "", 8.5}, {"site's basis", contentW - 112, sans, "", 8}}, rows, tableOpt{})
+	}
+	if len(d.r.Disabled) > 0 {
+		d.subheading("Default rules switched off by a site rulebook", 15)
+		var rows [][]string
+		for _, x := range d.r.Disabled {
+			rows = append(rows, []string{x.ID, orDash(x.Origin), orDash(x.Reason)})
+		}
+		d.table([]column{{"rule", 22, mono, "", 7.5}, {"site rulebook", 50, sans, "", 8.5},
+			{"reason given", contentW - 72, sans, "", 8.5}}, rows, tableOpt{})
 	}
 	if len(d.r.Thresholds) > 0 {
 		d.subheading("Thresholds in force", 15)

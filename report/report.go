@@ -136,16 +136,21 @@ var (
 
 // findingGroup is the findings of one hazard class, in the Review's order.
 type findingGroup struct {
-	hazard   string
+	hazard   string // class id, "shock"
+	title    string // the rulebook's title for it, "Electric shock"; the id when the rulebook gives none
 	findings []rules.Finding
 }
 
-// groupFindings groups findings by hazard class, keeping the order in which each class first appears (the
-// Review orders findings by hazard class already).
-func groupFindings(fs []rules.Finding) []findingGroup {
+// groupFindings groups the review's findings by hazard class, keeping the order in which each class first
+// appears (the Review orders findings by hazard class already), titled from the rulebook's classes.
+func groupFindings(r *rules.Review) []findingGroup {
+	titles := map[string]string{}
+	for _, h := range r.HazardClasses {
+		titles[h.ID] = h.Title
+	}
 	var gs []findingGroup
 	at := map[string]int{}
-	for _, f := range fs {
+	for _, f := range r.Findings {
 		h := f.Hazard
 		if h == "" {
 			h = "unclassified"
@@ -154,7 +159,11 @@ func groupFindings(fs []rules.Finding) []findingGroup {
 		if !ok {
 			i = len(gs)
 			at[h] = i
-			gs = append(gs, findingGroup{hazard: h})
+			title := titles[h]
+			if title == "" {
+				title = h
+			}
+			gs = append(gs, findingGroup{hazard: h, title: title})
 		}
 		gs[i].findings = append(gs[i].findings, f)
 	}

@@ -40,8 +40,8 @@ func Text(w io.Writer, r *rules.Review, opt ...Options) error {
 	if len(r.Findings) == 0 {
 		fmt.Fprintf(b, "  none\n")
 	}
-	for _, g := range groupFindings(r.Findings) {
-		fmt.Fprintf(b, "\n%s (%d)\n", g.hazard, len(g.findings))
+	for _, g := range groupFindings(r) {
+		fmt.Fprintf(b, "\n%s (%d)\n", g.title, len(g.findings))
 		for _, f := range g.findings {
 			head := fmt.Sprintf("%-8s %s, %s", f.Rule, f.Severity, f.Disposition)
 			if f.Title != "" {
@@ -98,10 +98,25 @@ func Text(w io.Writer, r *rules.Review, opt ...Options) error {
 			wrapTo(b, overrideLine(ov), "  ", "    ")
 		}
 	}
+	if len(r.Disabled) > 0 {
+		fmt.Fprintf(b, "\nDefault rules switched off by a site rulebook\n")
+		for _, d := range r.Disabled {
+			wrapTo(b, disabledLine(d), "  ", "    ")
+		}
+	}
 	fmt.Fprintf(b, "\nThis review is an engineering aid. It does not replace local codes, the institution's electrical\n"+
 		"safety program, or the judgement of qualified and licensed persons. Verify the rig description by\n"+
 		"measurement before sign-off.\n")
 	return b.Flush()
+}
+
+// disabledLine describes one default rule that a site rulebook switched off, with its stated reason.
+func disabledLine(d rules.DisabledRule) string {
+	s := fmt.Sprintf("%s: switched off by %s", d.ID, orDash(d.Origin))
+	if d.Reason != "" {
+		s += "; reason given: " + d.Reason
+	}
+	return s
 }
 
 // overrideLine describes one site override beside the reference value.

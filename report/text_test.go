@@ -2,9 +2,12 @@ package report
 
 import (
 	"bytes"
+	"encoding/json"
 	"strings"
 	"testing"
 	"unicode/utf8"
+
+	"chargeward/rules"
 )
 
 func TestText(t *testing.T) {
@@ -35,10 +38,10 @@ func TestText(t *testing.T) {
 	}
 	// Hazard classes appear once each, as group headings, in the Review's order.
 	last := -1
-	for _, g := range groupFindings(r.Findings) {
-		i := strings.Index(out, "\n"+g.hazard+" (")
+	for _, g := range groupFindings(r) {
+		i := strings.Index(out, "\n"+g.title+" (")
 		if i < 0 || i < last {
-			t.Errorf("heading %q: got index %d after %d, want increasing", g.hazard, i, last)
+			t.Errorf("heading %q: got index %d after %d, want increasing", g.title, i, last)
 		}
 		last = i
 	}
@@ -74,5 +77,42 @@ func TestWrapWords(t *testing.T) {
 				t.Errorf("got %q, want %q", got, tt.want)
 			}
 		})
+	}
+}
+
+// TestHazardTitlesAndDisabledRules: headings use the rulebook's class titles, and every output lists the
+// default rules a site rulebook switched off, with the site's reason (DESIGN.md §5: the report lists what a
+// site changed beside the reference).
+func TestHazardTitlesAndDisabledRules(t *testing.T) {
+	r := fixtureReview(t, 6, "Titles rig")
+	r.HazardClasses = nil
+	for _, f := range r.Findings {
+		r.HazardClasses = append(r.HazardClasses, rules.HazardClass{ID: f.Hazard, Title: "Class titled " + f.Hazard})
+	}
+	r.Disabled = []rules.DisabledRule{{ID: "ZZZ-99", Reason: "covered by the site's own enclosure rule", Origin: "site-rules.yaml"}}
+
+	var text strings.Builder
+	if err := Text(&text, r); err != nil {
+		t.Fatal(err)
+	}
+	out := text.String()
+	for _, want := range []string{"\nClass titled " + r.Findings[0].Hazard + " (", "ZZZ-99: switched off by site-rules.yaml",
+		"covered by the site's own enclosure rule"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("text: got no %q, want it", want)
+		}
+	}
+	var js strings.Builder
+	if err := JSON(&js, r); err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Disabled []rules.DisabledRule `json:"disabled_rules"`
+	}
+	if err := json.Unmarshal([]byte(js.String()), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if len(doc.Disabled) != 1 || doc.Disabled[0].ID != "ZZZ-99" {
+		t.Errorf("json: got disabled_rules %+v, want ZZZ-99", doc.Disabled)
 	}
 }

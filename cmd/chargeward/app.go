@@ -173,6 +173,26 @@ func parseFlags(fs *flag.FlagSet, args []string, e *env) (done bool, err error) 
 	return false, nil
 }
 
+// parseInterspersed parses flags that may come before, between or after the positional arguments
+// ("review RIG -o FILE.pdf"); after "--" everything is positional.
+func parseInterspersed(fs *flag.FlagSet, args []string, e *env) (pos []string, done bool, err error) {
+	rest := args
+	for {
+		if done, err := parseFlags(fs, rest, e); done {
+			return nil, true, err
+		}
+		consumed := len(rest) - fs.NArg()
+		if consumed > 0 && rest[consumed-1] == "--" {
+			return append(pos, fs.Args()...), false, nil
+		}
+		if fs.NArg() == 0 {
+			return pos, false, nil
+		}
+		pos = append(pos, fs.Arg(0))
+		rest = fs.Args()[1:]
+	}
+}
+
 // readInput reads a named input file, or standard input for "-", refusing more than schema.MaxFileSize
 // bytes before reading them all.
 func readInput(name string, e *env) ([]byte, error) {

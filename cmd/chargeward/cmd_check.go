@@ -48,15 +48,16 @@ func runCheck(args []string, e *env) error {
 	policyFile := fs.String("policy", "", "site policy `FILE` overriding thresholds by key")
 	rulesFile := fs.String("rules", "", "site rulebook `FILE` adding or disabling rules by id")
 	failOn := fs.String("fail-on", "controls", "exit 1 when a finding reaches this severity (NOTICE, CAUTION, WARNING, DANGER) or disposition (advisory, controls, must-fix); never: only bad input fails")
-	if done, err := parseFlags(fs, args, e); done {
+	names, done, err := parseInterspersed(fs, args, e) // flags may follow the rig files
+	if done {
 		return err
 	}
-	if fs.NArg() == 0 {
+	if len(names) == 0 {
 		fmt.Fprintln(e.stderr, "chargeward check: name at least one rig file (or - for standard input)")
 		fs.Usage()
 		return exitError{exitBadInput}
 	}
-	o := checkOptions{format: *format, many: fs.NArg() > 1}
+	o := checkOptions{format: *format, many: len(names) > 1}
 	if o.format != "text" && o.format != "json" {
 		fmt.Fprintf(e.stderr, "chargeward check: --format takes text or json, not %q\n", o.format)
 		return exitError{exitBadInput}
@@ -78,8 +79,8 @@ func runCheck(args []string, e *env) error {
 	o.set = set
 	worst := exitOK
 	var docs []json.RawMessage
-	pre := judgeAll(fs.Args(), o.set) // several rigs: loaded and judged on both cores, printed in order
-	for i, name := range fs.Args() {
+	pre := judgeAll(names, o.set) // several rigs: loaded and judged on both cores, printed in order
+	for i, name := range names {
 		rv, err := checkOne(name, e, o, pre[i])
 		if err != nil {
 			worst = max(worst, code(err, e.stderr))

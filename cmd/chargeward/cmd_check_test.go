@@ -188,3 +188,21 @@ func TestExampleCommand(t *testing.T) {
 		t.Errorf("got exit %d, stdout %q, stderr %q; want 2, nothing, a suggestion", code, stdout, stderr)
 	}
 }
+
+// TestCheckFlagsAfterRig: options may follow the rig files, as users type them ("check RIG --policy F").
+// Before this was supported, "--policy" was read as a second rig file and the site policy as a third.
+func TestCheckFlagsAfterRig(t *testing.T) {
+	rig := "../../testdata/rigs/ring-jumper.yaml"
+	policy := "../../testdata/policy/site-stricter.yaml"
+	before, out1, _ := runCLI(t, "", "check", "--policy", policy, "--fail-on", "never", rig)
+	after, out2, errOut := runCLI(t, "", "check", rig, "--policy", policy, "--fail-on", "never")
+	if before != 0 || after != 0 {
+		t.Fatalf("got exit %d (flags first) and %d (flags last; stderr %q), want 0 and 0", before, after, errOut)
+	}
+	if out1 != out2 {
+		t.Errorf("got different output for flags after the rig file, want the same")
+	}
+	if !strings.Contains(out2, "Site policy overrides") {
+		t.Errorf("got no site policy override in the output, want the --policy file applied")
+	}
+}

@@ -143,26 +143,6 @@ func reviewDay(s string) (time.Time, error) {
 	return t, nil
 }
 
-// parseInterspersed parses flags that may come before, between or after the positional arguments
-// ("review RIG -o FILE.pdf"); after "--" everything is positional.
-func parseInterspersed(fs *flag.FlagSet, args []string, e *env) (pos []string, done bool, err error) {
-	rest := args
-	for {
-		if done, err := parseFlags(fs, rest, e); done {
-			return nil, true, err
-		}
-		consumed := len(rest) - fs.NArg()
-		if consumed > 0 && rest[consumed-1] == "--" {
-			return append(pos, fs.Args()...), false, nil
-		}
-		if fs.NArg() == 0 {
-			return pos, false, nil
-		}
-		pos = append(pos, fs.Arg(0))
-		rest = fs.Args()[1:]
-	}
-}
-
 // refuseOverwrite refuses an output path that names one of the inputs.
 func refuseOverwrite(out string, inputs ...string) error {
 	if out == "-" {
