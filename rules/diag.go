@@ -33,37 +33,12 @@ func errAt(file string, line, col int, code, summary, detail string) Diagnostic 
 	return Diagnostic{Severity: schema.SeverityError, Code: code, Summary: summary, Detail: detail, File: file, Line: line, Column: col}
 }
 
-// suggest returns ` (did you mean "x"?)` for the closest candidate within edit distance 3, or "".
+// suggest returns ` (did you mean "x"?)` for the closest candidate that is a plausible typo of s, or "";
+// closeness is the one the rig loader uses (schema.Suggest).
 func suggest(s string, candidates []string) string {
-	best, bd := "", 4
-	for _, c := range candidates {
-		if d := editDistance(s, c); d < bd {
-			best, bd = c, d
-		}
-	}
+	best := schema.Suggest(s, candidates)
 	if best == "" {
 		return ""
 	}
 	return fmt.Sprintf(" (did you mean %q?)", best)
-}
-
-func editDistance(a, b string) int {
-	ra, rb := []rune(a), []rune(b)
-	prev := make([]int, len(rb)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(ra); i++ {
-		cur := make([]int, len(rb)+1)
-		cur[0] = i
-		for j := 1; j <= len(rb); j++ {
-			cost := 1
-			if ra[i-1] == rb[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev = cur
-	}
-	return prev[len(rb)]
 }

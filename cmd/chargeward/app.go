@@ -102,38 +102,14 @@ func usage(w io.Writer) {
 }
 
 func suggestCommand(s string) string {
-	best, bd := "", 3
-	for _, c := range commands {
-		if d := editDistance(s, c.name); d < bd {
-			best, bd = c.name, d
-		}
+	names := make([]string, len(commands))
+	for i, c := range commands {
+		names[i] = c.name
 	}
-	if best == "" {
-		return ""
+	if best := schema.Suggest(s, names); best != "" {
+		return fmt.Sprintf(" (did you mean %q?)", best)
 	}
-	return fmt.Sprintf(" (did you mean %q?)", best)
-}
-
-// editDistance is the Levenshtein distance, for suggestions.
-func editDistance(a, b string) int {
-	ra, rb := []rune(a), []rune(b)
-	prev := make([]int, len(rb)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(ra); i++ {
-		cur := make([]int, len(rb)+1)
-		cur[0] = i
-		for j := 1; j <= len(rb); j++ {
-			cost := 1
-			if ra[i-1] == rb[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev = cur
-	}
-	return prev[len(rb)]
+	return ""
 }
 
 // newFlags returns a command's flag set. Parse errors go to stderr; --help prints usage (the command's

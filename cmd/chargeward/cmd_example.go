@@ -1,6 +1,8 @@
 package main
 
 import (
+	"chargeward/schema"
+
 	"fmt"
 	"io/fs"
 	"path"
@@ -70,14 +72,10 @@ func demoNames() ([]string, error) {
 }
 
 func suggestName(s string, names []string) string {
-	best, bd := "", 4
 	for _, n := range names {
 		if strings.HasPrefix(n, s) && s != "" {
 			return n
 		}
-		if d := editDistance(s, n); d < bd {
-			best, bd = n, d
-		}
 	}
-	return best
+	return schema.Suggest(s, names)
 }
