@@ -45,6 +45,7 @@ var hostileCases = []struct {
 	{"rig-coil-id-eq-od.yaml", "RIG-CONFLICT", 30, 19},
 	{"rig-coil-id-gt-od.yaml", "RIG-CONFLICT", 30, 19},
 	{"rig-dc-1e300.yaml", "PHYSICS-MODEL", 5, 1},
+	{"rig-disc-5m-over-small-coil.yaml", "PHYSICS-MODEL", 36, 19},
 	{"rig-disc-bigger-than-room.yaml", "RIG-CONFLICT", 40, 19},
 	{"rig-disc-tiny.yaml", "PHYSICS-MODEL", 33, 1},
 	{"rig-disc-with-inner.yaml", "RIG-CONFLICT", 37, 19},
