@@ -73,6 +73,11 @@ func ReadYAML(name string, data []byte) (root *yaml.Node, diags Diagnostics) {
 		return nil, append(diags, at(1, 1, "YAML-EMPTY", "file holds no YAML document", "Write the description as YAML mappings; run 'chargeward example' for a complete one."))
 	}
 	root = doc.Content[0]
+	if root.Kind == yaml.ScalarNode && root.Tag == "!!null" && root.Value == "" {
+		// "---" alone (or with comments) is an empty document; yaml.v3 places its null after the marker,
+		// on a line the file may not have.
+		return nil, append(diags, at(1, 1, "YAML-EMPTY", "file holds no YAML document", "Write the description as YAML mappings; run 'chargeward example' for a complete one."))
+	}
 	w := walker{name: name, memo: map[*yaml.Node]int{}}
 	w.check(root, 1)
 	diags = append(diags, w.diags...)
