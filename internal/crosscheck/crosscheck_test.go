@@ -1,6 +1,7 @@
 package crosscheck
 
 import (
+	"fmt"
 	"math"
 	"math/cmplx"
 	"os"
@@ -404,6 +405,31 @@ func TestDiscThrower(t *testing.T) {
 		{"FLD-02", zImp > 0, "no implant notice is stated: absence is never a notice"},
 		{"NOI-02", wW >= 50, "no hearing protection above the 50 J screening energy"},
 	})
+
+	// The messages state the figures computed above (three significant figures, as the report prints them),
+	// each paired with the corner it belongs to.
+	for _, m := range []struct{ rule, want string }{
+		{"SHK-01", fmt.Sprintf("%.3g J at %.3g V", w, v)},
+		{"DIS-01", fmt.Sprintf("%.3g s to fall from %.3g V", tSafe, v)},
+		{"DIS-01", fmt.Sprintf("%.3g s from %.3g V in the worst case", tSafeW, vW)},
+		{"BLD-01", fmt.Sprintf("%.3g W", pBW)},
+		{"BNK-08", fmt.Sprintf("%.3g kA", ipW/nP/1e3)},
+		{"EYE-01", fmt.Sprintf("%.3g m/s carrying up to %.3g J", speedW, keW)},
+		{"PRJ-01", fmt.Sprintf("rise %.3g m", speed*speed/(2*g0))},
+		{"DIS-05", "nothing but the cells' own leakage"}, // one chain: no other path remains
+	} {
+		t.Run(m.rule+" message", func(t *testing.T) {
+			for _, f := range p.rv.Findings {
+				if f.Rule == m.rule {
+					if !strings.Contains(f.Message, m.want) {
+						t.Errorf("%s: got message %q, want it to contain %q", m.rule, f.Message, m.want)
+					}
+					return
+				}
+			}
+			t.Errorf("%s: got no finding, want one", m.rule)
+		})
+	}
 }
 
 func must(v, _ float64) float64  { return v }
