@@ -92,6 +92,7 @@ func runChecks(t *testing.T, cs []check) {
 	t.Helper()
 	for _, c := range cs {
 		t.Run(c.name, func(t *testing.T) {
+			t.Logf("program %.6g, independent %.6g, relative difference %.2g", c.got, c.want, (c.got-c.want)/c.want)
 			if math.IsNaN(c.got) || math.IsInf(c.got, 0) || !scalar.EqualWithinRel(c.got, c.want, c.rel) {
 				t.Errorf("got %.6g, want %.6g (relative difference %.3g, tolerance %g: %s)", c.got, c.want, (c.got-c.want)/c.want, c.rel, c.why)
 			}
@@ -290,6 +291,12 @@ func TestDiscThrower(t *testing.T) {
 	eyeE := 0.5 * ball * 45.7 * 45.7
 	eyePolicy, _ := p.set.Policy().Value("eye.spectacles_energy")
 
+	const tilt = 5 * math.Pi / 180    // rad, the policy's default tilt (launch.default_tilt); the rig states none
+	dCeil := ceiling - 1.5e-3 - discT // m, disc top face at rest to the ceiling (gap 1.5 mm, card and tape)
+	vz, vx := speedW*math.Cos(tilt), speedW*math.Sin(tilt)
+	tUp := (vz - math.Sqrt(vz*vz-2*g0*dCeil)) / g0
+	reachW := vx*(tUp+math.Sqrt(2*dCeil/g0)) + discD/2
+	_, rangeFormula := p.q(t, "launch.exclusion_radius")
 	vLoad, _ := p.q(t, "bank.voltage")
 	runChecks(t, []check{
 		{"supply.peak_voltage", must(p.q(t, "supply.peak_voltage")), vpk, 1e-9, "same closed form; rounding only"},
@@ -356,6 +363,15 @@ func TestDiscThrower(t *testing.T) {
 		{"launch.height worst", worst(p.q(t, "launch.height")), speedW * speedW / (2 * g0), 1e-3, "as above"},
 		{"launch.kinetic_energy", must(p.q(t, "launch.kinetic_energy")), ke, 1e-4, "½mv², mass from the 6061 density"},
 		{"launch.kinetic_energy worst", worst(p.q(t, "launch.kinetic_energy")), keW, 1e-4, "as above"},
+		// The flight from the disc's top face (gap + thickness above the coil) to the ceiling: the speed left
+		// at the ceiling is √(v² − 2gD) (uniform deceleration); the program subtracts the few-cm push, which
+		// changes v² by 2gΔh ≈ 0.04 % of v²: 1e-3.
+		{"launch.ceiling_impact_speed worst", worst(p.q(t, "launch.ceiling_impact_speed")), math.Sqrt(speedW*speedW - 2*g0*dCeil), 1e-3, "push distance neglected here"},
+		// Reach of a 5° tilted launch that strikes the ceiling and falls from it with no vertical speed left:
+		// x = v sin θ (t_up + √(2D/g)) + disc radius. Here t_up uses the vertical component v cos θ, the
+		// program v; the difference (1 − cos 5° = 0.4 % of a 65 ms climb) and the push phase (about a
+		// millisecond at 3.6 m/s sideways, 4 mm) stay within 0.5 %.
+		{"launch.exclusion_radius worst", rangeFormula, reachW, 5e-3, "v vs v cos θ in the climb; push phase"},
 		// The ball energy is written into the policy to 4 figures.
 		{"eye.spectacles_energy", eyePolicy, eyeE, 5e-4, "policy value rounded to 4 significant figures"},
 	})
