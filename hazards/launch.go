@@ -1152,10 +1152,17 @@ func addLaunchQuantities(a *Assessment, s *launchSetup, ps projectileSpec, div d
 		if r.Rig.AudienceDistance != nil {
 			exIn = append(exIn, Input{"d_aud", "rig.audience_distance", *r.Rig.AudienceDistance, "m"})
 		}
+		basis, reachNote := "projectile motion without drag (an upper bound on the range)", "landing at the launch level; a bounce or a fall from a bench goes further; no guard counted"
+		if fn.reaches || fw.reaches {
+			// A dead stop at the ceiling and a straight fall is what the formula assumes; a disc that strikes
+			// the ceiling at speed can ricochet anywhere, so the figure is no longer an upper bound.
+			basis = "projectile motion without drag, stopped dead by the ceiling and falling straight: not an upper bound, since a ceiling strike can deflect the projectile anywhere in the room"
+			reachNote = "the projectile strikes the ceiling; where it goes after the strike is not predictable"
+		}
 		qs = append(qs, Quantity{Name: "launch.exclusion_radius", Value: rn, Worst: w(rw), Unit: "m",
 			Formula: "R = v² sin 2θ / g + r_p; with a ceiling it reaches: R = v sin θ (t_up + √(2D/g)) + r_p",
-			Inputs:  exIn, Basis: "projectile motion without drag (an upper bound on the range)",
-			Note: joinLaunchNotes(fmt.Sprintf("%s, %.3g°", tiltNote, theta*180/math.Pi), "landing at the launch level; a bounce or a fall from a bench goes further; no guard counted", worstNote)})
+			Inputs:  exIn, Basis: basis,
+			Note: joinLaunchNotes(fmt.Sprintf("%s, %.3g°", tiltNote, theta*180/math.Pi), reachNote, worstNote)})
 	}
 
 	// Measured launch height: speed and energy from it, beside the prediction.

@@ -151,6 +151,8 @@ var ruleCases = []ruleCase{
 	{"MEA-06", func(f *fixture) { f.set("coil.resistance_disagreement", 0.5) }, func(f *fixture) { f.set("coil.resistance_disagreement", -0.15) }},
 	{"MEA-07", func(f *fixture) { f.set("coil.winding_fill", 1.08) }, func(f *fixture) { f.set("coil.winding_fill", 0.9) }},
 	{"COL-03", func(f *fixture) { f.set("coil.skin_depth_ratio", 1.5) }, func(f *fixture) { f.set("coil.skin_depth_ratio", 0.4) }},
+	// Any launch pushes back on the coil; a run with no force (no take-off) does not.
+	{"COL-04", func(f *fixture) { f.set("launch.peak_force", 5000) }, func(f *fixture) { f.set("launch.peak_force", 0) }},
 	{"PRJ-01", func(f *fixture) { // with the physics' ceiling figures the message says how fast it arrives
 		f.set("launch.height", 10)
 		f.set("launch.ceiling_impact_speed", 12)
