@@ -43,7 +43,8 @@ func ReadYAML(name string, data []byte) (root *yaml.Node, diags Diagnostics) {
 	}
 	if off := firstControl(data); off >= 0 {
 		line, col := lineCol(data, off)
-		return nil, Diagnostics{at(line, col, "YAML-ENCODING", fmt.Sprintf("control character U+%04X in the file", data[off]),
+		r, _ := utf8.DecodeRune(data[off:])
+		return nil, Diagnostics{at(line, col, "YAML-ENCODING", fmt.Sprintf("control or line-separator character U+%04X in the file", r),
 			"Remove it; only tab, line feed and carriage return may appear in a text file.")}
 	}
 	defer func() {
@@ -243,10 +244,18 @@ func secondDocLine(data []byte, after int) int {
 }
 
 // firstControl returns the byte offset of the first C0 control character other than tab, LF and CR (or
-// DEL), or -1.
+// DEL), C1 control character, or U+2028/U+2029 line or paragraph separator, or -1.
 func firstControl(data []byte) int {
 	for i, c := range data {
 		if (c < 0x20 && c != '\t' && c != '\n' && c != '\r') || c == 0x7f {
+			return i
+		}
+		// C1 controls (U+0080–U+009F) and the Unicode line and paragraph separators (U+2028, U+2029): the
+		// YAML parser breaks lines at NEL, LS and PS where editors do not, so positions would disagree.
+		if c == 0xc2 && i+1 < len(data) && data[i+1] >= 0x80 && data[i+1] <= 0x9f {
+			return i
+		}
+		if c == 0xe2 && i+2 < len(data) && data[i+1] == 0x80 && (data[i+2] == 0xa8 || data[i+2] == 0xa9) {
 			return i
 		}
 	}

@@ -64,6 +64,8 @@ var hostileCases = []struct {
 	{"rig-lookalike-kelvin-sign.yaml", "UNIT-LOOKALIKE", 20, 18},
 	{"rig-lookalike-rtl-override.yaml", "UNIT-LOOKALIKE", 15, 19},
 	{"rig-lookalike-zero-width.yaml", "UNIT-LOOKALIKE", 15, 16},
+	{"rig-nel-in-name.yaml", "YAML-ENCODING", 3, 16},
+	{"rig-line-separator.yaml", "YAML-ENCODING", 3, 20},
 	{"rig-number-10000-digits.yaml", "UNIT-NONFINITE", 6, 16},
 	{"rig-number-hex.yaml", "UNIT-UNKNOWN", 6, 17},
 	{"rig-number-inf-word.yaml", "UNIT-NONFINITE", 6, 16},
