@@ -141,19 +141,26 @@ func fzDemoAssessment(tb testing.TB) *hazards.Assessment {
 	return a
 }
 
-// yamlLines counts lines as YAML 1.2 breaks them (§5.4: LF, CRLF or a lone CR), so that a diagnostic on
-// the last line of "\r0" is inside the file.
+// yamlLines counts lines as the YAML parser and schema's positions break them: LF, CRLF, a lone CR, and
+// NEL, LS and PS (YAML 1.1 §5.4 line breaks, which yaml.v3 follows), so that a diagnostic on the last line
+// of "\r0" or "\u00850" is inside the file.
 func yamlLines(data []byte) int {
 	n := 1
 	for i := 0; i < len(data); i++ {
-		switch data[i] {
-		case '\n':
+		switch {
+		case data[i] == '\n':
 			n++
-		case '\r':
+		case data[i] == '\r':
 			n++
 			if i+1 < len(data) && data[i+1] == '\n' {
 				i++
 			}
+		case data[i] == 0xc2 && i+1 < len(data) && data[i+1] == 0x85:
+			n++
+			i++
+		case data[i] == 0xe2 && i+2 < len(data) && data[i+1] == 0x80 && (data[i+2] == 0xa8 || data[i+2] == 0xa9):
+			n++
+			i += 2
 		}
 	}
 	return n
