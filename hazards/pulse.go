@@ -395,14 +395,7 @@ func (p *PulseResult) crowbarCoil(l LoopModel, first rlcSegment, zero float64, h
 	}
 	if !ok || (hasZero && tc >= zero) {
 		// The clamp never conducts: the loop behaves as unidirectional.
-		end := zero
-		if !hasZero {
-			end = tailEnd(first)
-		}
-		cur := wave{kind: wRLCCurrent, seg: first}
-		p.pieces = append(p.pieces, piece{t0: 0, t1: end, coil: cur, sw: cur, bank: cur, v: wave{kind: wRLCVoltage, seg: first}, rBank: l.R})
-		p.FirstZero = end
-		p.Reversal = math.Max(0, -first.voltage(end)/l.V0)
+		p.unclamped(l, first, zero, hasZero, tailEnd)
 		return nil
 	}
 	if l.CoilR <= 0 {
@@ -465,20 +458,26 @@ func (p *PulseResult) crowbarCoil(l LoopModel, first rlcSegment, zero float64, h
 	return nil
 }
 
+// unclamped builds the single piece of a crowbarred loop whose clamp never conducts: the first lobe runs
+// to its current zero (or to the tail's end) exactly as in a unidirectional loop.
+func (p *PulseResult) unclamped(l LoopModel, first rlcSegment, zero float64, hasZero bool, tailEnd func(rlcSegment) float64) {
+	end := zero
+	if !hasZero {
+		end = tailEnd(first)
+	}
+	cur := wave{kind: wRLCCurrent, seg: first}
+	p.pieces = append(p.pieces, piece{t0: 0, t1: end, coil: cur, sw: cur, bank: cur, v: wave{kind: wRLCVoltage, seg: first}, rBank: l.R})
+	p.FirstZero = end
+	p.Reversal = math.Max(0, -first.voltage(end)/l.V0)
+}
+
 // crowbarBank builds the pieces of a crowbar diode across the bank terminals.
 func (p *PulseResult) crowbarBank(l LoopModel, first rlcSegment, zero float64, hasZero bool, tailEnd func(rlcSegment) float64) error {
 	// Terminal voltage vT = vC − BankR·i; find its first zero in the first lobe by bisection (it is positive
 	// at t = 0 and negative at the current zero when the bank reverses).
 	vt := func(t float64) float64 { return first.voltage(t) - l.BankR*first.current(t) }
 	if !hasZero || vt(zero) >= 0 {
-		end := zero
-		if !hasZero {
-			end = tailEnd(first)
-		}
-		cur := wave{kind: wRLCCurrent, seg: first}
-		p.pieces = append(p.pieces, piece{t0: 0, t1: end, coil: cur, sw: cur, bank: cur, v: wave{kind: wRLCVoltage, seg: first}, rBank: l.R})
-		p.FirstZero = end
-		p.Reversal = math.Max(0, -first.voltage(end)/l.V0)
+		p.unclamped(l, first, zero, hasZero, tailEnd)
 		return nil
 	}
 	lo, hi := 0.0, zero

@@ -118,14 +118,9 @@ func buildReview(name string, site siteFiles, e *env) (*schema.Rig, *rules.Revie
 	if err != nil {
 		return nil, nil, err
 	}
-	rig, err := loadRig(name, e)
+	rig, rv, err := loadAndJudge(name, e, set)
 	if err != nil {
 		return nil, nil, err
-	}
-	rv, err := judge(rig, set)
-	if err != nil {
-		reportPhysics(e.stderr, name, rig, err)
-		return nil, nil, exitError{exitBadInput}
 	}
 	return rig, rv, nil
 }
