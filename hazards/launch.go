@@ -757,8 +757,11 @@ func chooseFilaments(w, thick, delta float64, ring bool, requested int) (nr, nz 
 func skinDepth(rho, f float64) float64 { return math.Sqrt(rho / (math.Pi * f * em.Mu0)) }
 
 // defaultSimulationTimeout is the wall time allowed for the launch simulation when Targets.SimulationTimeout
-// is zero. The demo rig needs about 15 ms per run.
-const defaultSimulationTimeout = 10 * time.Second
+// is zero. The demo rig needs about 15 ms per run. The step limit (200 000 steps) is the bound that decides
+// whether a rig can be simulated, and it does not depend on the machine; the wall time is only a backstop
+// against a stalled machine, set well above what the step limit can take (about 10 s on a loaded 2-core
+// machine), so that the same rig gets the same answer whatever else the machine is doing.
+const defaultSimulationTimeout = 60 * time.Second
 
 // convectionCoefficient is the heat-transfer coefficient assumed for the projectile's cool-down, W/(m²·K):
 // natural convection in still air is about 5–25 W/(m²·K) (common practice; e.g. Incropera & DeWitt,
