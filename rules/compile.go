@@ -42,6 +42,9 @@ func newNamespace(p *Policy) *namespace {
 	}
 	ns.add("gap.field", nameInfo{kindStr, ""})
 	ns.add("gap.effect", nameInfo{kindStr, ""})
+	for _, n := range []string{"override.key", "override.site", "override.reference", "override.basis"} {
+		ns.add(n, nameInfo{kindStr, ""})
+	}
 	return ns
 }
 

@@ -18,6 +18,7 @@ type evalEnv struct {
 	policy   *Policy
 	limits   map[string]float64
 	gap      *hazards.Gap
+	override *Override // the loosened threshold a 'loosened' rule is rendering
 
 	read    []string // names read, in order, without duplicates
 	missing []string // names read that were absent
@@ -62,6 +63,21 @@ func (e *evalEnv) lookup(path string) (any, bool) {
 			return nil, false
 		}
 		return e.gap.Effect, true
+	case strings.HasPrefix(path, "override."):
+		if e.override == nil {
+			return nil, false
+		}
+		switch path {
+		case "override.key":
+			return e.override.Key, true
+		case "override.site":
+			return FormatQuantity(e.override.Site, e.override.Unit), true
+		case "override.reference":
+			return FormatQuantity(e.override.Reference, e.override.Unit), true
+		case "override.basis":
+			return e.override.Basis, true
+		}
+		return nil, false
 	case strings.HasPrefix(path, "worst."):
 		if e.a == nil {
 			return nil, false

@@ -28,10 +28,14 @@ func (s *Set) Evaluate(a *hazards.Assessment) (rv *Review, err error) {
 	env := newEnv(a, s.policy)
 	var findings []Finding
 	named := map[string]bool{} // rig fields already named by a could-not-be-checked finding
-	var gapRule *Rule
+	var gapRule, loosenedRule *Rule
 	for _, r := range s.rules {
 		if r.Gaps {
 			gapRule = r
+			continue
+		}
+		if r.Loosened {
+			loosenedRule = r
 			continue
 		}
 		if r.applies != nil {
@@ -89,13 +93,27 @@ func (s *Set) Evaluate(a *hazards.Assessment) (rv *Review, err error) {
 		}
 		env.gap = nil
 	}
+	overrides := s.policy.overrides()
+	if loosenedRule != nil {
+		for _, ov := range overrides {
+			if !ov.Looser {
+				continue
+			}
+			ov := ov
+			env.override = &ov
+			f := s.finding(loosenedRule, nil)
+			f.Message = render(loosenedRule.message, env)
+			findings = append(findings, f)
+		}
+		env.override = nil
+	}
 	s.sortFindings(findings)
 	rv = &Review{
 		Assessment:     a,
 		Findings:       findings,
 		Verdict:        verdict(findings),
 		Checklist:      s.buildChecklist(findings),
-		Overrides:      s.policy.overrides(),
+		Overrides:      overrides,
 		Thresholds:     s.policy.thresholds(),
 		RulebookDigest: s.rulebookDigest,
 		PolicyDigest:   s.policyDigest,

@@ -11,9 +11,10 @@ import (
 // bench rig (invented, for tests only) on which no rule of the default rulebook fires; each test case
 // changes one thing and checks that exactly the rule it targets responds.
 type fixture struct {
-	rig  *schema.Rig
-	q    map[string][2]float64 // name → nominal, worst
-	gaps []hazards.Gap
+	rig        *schema.Rig
+	q          map[string][2]float64 // name → nominal, worst
+	gaps       []hazards.Gap
+	sitePolicy string // a site policy file to evaluate under instead of the defaults; "" for none
 }
 
 func f64(v float64) *float64 { return &v }
@@ -106,6 +107,13 @@ func mustDefault(t *testing.T) *Set {
 
 func evaluate(t *testing.T, s *Set, f *fixture) *Review {
 	t.Helper()
+	if f.sitePolicy != "" {
+		site, err := Load("site-policy.yaml", []byte(f.sitePolicy), "", nil)
+		if err != nil {
+			t.Fatalf("Load site policy: %v", err)
+		}
+		s = site
+	}
 	rv, err := s.Evaluate(f.assessment(t))
 	if err != nil {
 		t.Fatalf("Evaluate: %v", err)

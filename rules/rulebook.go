@@ -26,9 +26,10 @@ type Rule struct {
 	Title       string      `json:"title"`
 	Severity    Severity    `json:"severity"`
 	Disposition Disposition `json:"disposition"`
-	Applies     string      `json:"applies,omitempty"` // condition under which the rule is relevant at all
-	When        string      `json:"when,omitempty"`    // condition under which it fires
-	Gaps        bool        `json:"gaps,omitempty"`    // fires once for each gap of the assessment
+	Applies     string      `json:"applies,omitempty"`  // condition under which the rule is relevant at all
+	When        string      `json:"when,omitempty"`     // condition under which it fires
+	Gaps        bool        `json:"gaps,omitempty"`     // fires once for each gap of the assessment
+	Loosened    bool        `json:"loosened,omitempty"` // fires once for each site threshold less strict than the reference
 	// Covers lists gap fields this rule's finding already reports; such gaps get no finding of their own.
 	Covers   []string  `json:"covers,omitempty"`
 	Message  string    `json:"message"`
@@ -111,6 +112,7 @@ type ruleYAML struct {
 	Applies     yaml.Node `yaml:"applies"`
 	When        yaml.Node `yaml:"when"`
 	Gaps        bool      `yaml:"gaps"`
+	Loosened    bool      `yaml:"loosened"`
 	Covers      []string  `yaml:"covers"`
 	Message     yaml.Node `yaml:"message"`
 	Controls    []struct {
@@ -228,7 +230,7 @@ func (c *ruleCompiler) compileRule(node *yaml.Node) *Rule {
 		return nil
 	}
 	r := &Rule{ID: ry.ID, Hazard: ry.Hazard, Title: ry.Title, Severity: parseSeverity(ry.Severity), Disposition: parseDisposition(ry.Disposition),
-		Gaps: ry.Gaps, Covers: ry.Covers, Message: ry.Message.Value, Basis: strings.TrimSpace(ry.Basis), Origin: c.name,
+		Gaps: ry.Gaps, Loosened: ry.Loosened, Covers: ry.Covers, Message: ry.Message.Value, Basis: strings.TrimSpace(ry.Basis), Origin: c.name,
 		Applies: strings.TrimSpace(ry.Applies.Value), When: strings.TrimSpace(ry.When.Value)}
 	if n, _ := nodeAt(node, "/when"); n != nil {
 		r.whenAt.line, r.whenAt.col = n.Line, n.Column
@@ -261,15 +263,20 @@ func (c *ruleCompiler) compileRule(node *yaml.Node) *Rule {
 		ok = ok && errs == nil
 		r.applies = prog
 	}
+	perItem := r.Gaps || r.Loosened // fires once per gap or per loosened threshold, with no condition
 	switch {
-	case r.Gaps && r.When != "":
-		c.diag(&ry.When, CodeRuleSchema, fmt.Sprintf("rule %s: a gaps rule has no condition", r.ID), "remove 'when' or 'gaps'")
+	case r.Gaps && r.Loosened:
+		n, _ := nodeAt(node, "/id")
+		c.diag(n, CodeRuleSchema, fmt.Sprintf("rule %s: a rule is either 'gaps' or 'loosened', not both", r.ID), "split it into two rules")
 		ok = false
-	case !r.Gaps && r.When == "":
+	case perItem && r.When != "":
+		c.diag(&ry.When, CodeRuleSchema, fmt.Sprintf("rule %s: a gaps or loosened rule has no condition", r.ID), "remove 'when', or 'gaps' / 'loosened'")
+		ok = false
+	case !perItem && r.When == "":
 		n, _ := nodeAt(node, "/id")
 		c.diag(n, CodeRuleSchema, fmt.Sprintf("rule %s has no condition", r.ID), "add 'when: CONDITION' (or 'gaps: true' for the missing-information rule)")
 		ok = false
-	case !r.Gaps:
+	case !perItem:
 		prog, errs := compileExpr(c.ns, ry.When.Value, true)
 		c.exprDiags(&ry.When, errs, 0)
 		ok = ok && errs == nil

@@ -152,6 +152,13 @@ var ruleCases = []ruleCase{
 	{"MEA-07", func(f *fixture) { f.set("coil.winding_fill", 1.08) }, func(f *fixture) { f.set("coil.winding_fill", 0.9) }},
 	{"COL-03", func(f *fixture) { f.set("coil.skin_depth_ratio", 1.5) }, func(f *fixture) { f.set("coil.skin_depth_ratio", 0.4) }},
 	// Any launch pushes back on the coil; a run with no force (no take-off) does not.
+	// A site that allows 120 s to the safe voltage is looser than the reference 60 s (NEC 460.6(A)); one that
+	// allows 30 s is stricter and needs no acceptance.
+	{"INF-05", func(f *fixture) {
+		f.sitePolicy = "thresholds:\n  residual.time_low: {value: 120 s, unit: s, basis: \"site variance\"}\n"
+	}, func(f *fixture) {
+		f.sitePolicy = "thresholds:\n  residual.time_low: {value: 30 s, unit: s, basis: \"site rule\"}\n"
+	}},
 	{"COL-04", func(f *fixture) { f.set("launch.peak_force", 5000) }, func(f *fixture) { f.set("launch.peak_force", 0) }},
 	{"PRJ-01", func(f *fixture) { // with the physics' ceiling figures the message says how fast it arrives
 		f.set("launch.height", 10)

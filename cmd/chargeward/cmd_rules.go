@@ -130,6 +130,9 @@ func listRules(w io.Writer, set *rules.Set, format string, conditions bool) erro
 			if r.Gaps {
 				when = "each piece of missing information"
 			}
+			if r.Loosened {
+				when = "each site threshold less strict than the reference"
+			}
 			out.Rules = append(out.Rules, ruleJSON{r.ID, r.Hazard, r.Title, r.Severity.String(), r.Disposition.String(), r.Applies, when, r.Basis, r.Origin})
 		}
 		return writeJSON(w, out)
@@ -162,6 +165,8 @@ func listRules(w io.Writer, set *rules.Set, format string, conditions bool) erro
 				}
 				if r.Gaps {
 					fmt.Fprintf(&b, "          when: each piece of missing information the physics records\n")
+				} else if r.Loosened {
+					fmt.Fprintf(&b, "          when: each site threshold less strict than the reference policy\n")
 				} else {
 					fmt.Fprintf(&b, "          when: %s\n", oneLine(r.When))
 				}
