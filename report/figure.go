@@ -43,10 +43,10 @@ func (d *doc) figures() {
 
 	var decay []series
 	if c, ok := a.Curve("discharge.decay"); ok {
-		decay = append(decay, series{c, "all discharge paths", blue, false})
+		decay = append(decay, series{c, "permanent paths (bleeders, balancing, leakage)", blue, false})
 	}
 	if c, ok := a.Curve("discharge.decay_single_fault"); ok {
-		decay = append(decay, series{c, "one bleeder failed open", orange, true})
+		decay = append(decay, series{c, "one permanent path failed open", orange, true})
 	}
 	var refs []refLine
 	if t.SafeVoltage > 0 {
@@ -55,7 +55,7 @@ func (d *doc) figures() {
 	if t.TimeAllowed > 0 {
 		refs = append(refs, refLine{true, t.TimeAllowed, "time allowed " + SI(t.TimeAllowed, "s"), grey})
 	}
-	d.figure("Bank voltage after switch-off through the discharge paths", decay, refs,
+	d.figure("Bank voltage after switch-off through the permanent discharge paths (a dump circuit is not counted)", decay, refs,
 		"the discharge curves (discharge.decay, discharge.decay_single_fault)")
 
 	var cur, volt []series

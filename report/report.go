@@ -94,7 +94,7 @@ var keyQuantities = []struct{ name, meaning string }{
 	{"bank.energy", "stored energy ½CV²"},
 	{"bank.charge", "stored charge CV"},
 	{"bank.cell_voltage_max", "highest voltage on one series cell"},
-	{"discharge.time_constant", "time constant of all discharge paths"},
+	{"discharge.time_constant", "time constant of the permanent discharge paths"},
 	{"discharge.time_to_safe", "time to the safe voltage"},
 	{"discharge.time_to_safe_single_fault", "the same, one bleeder failed open"},
 	{"bleeder.power", "dissipation in one bleeder at full charge"},
