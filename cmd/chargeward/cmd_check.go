@@ -8,7 +8,6 @@ import (
 	"strconv"
 	"strings"
 
-	"chargeward/hazards"
 	"chargeward/report"
 	"chargeward/rules"
 	"chargeward/schema"
@@ -154,28 +153,9 @@ func checkOne(name string, e *env, o checkOptions, pre *judged) (*rules.Review, 
 	return rv, report.Text(e.stdout, rv, report.Options{Version: Version})
 }
 
-// judge computes a rig's hazards against the policy's targets and evaluates the rulebook. The time allowed to
-// reach the safe voltage depends on the bank's voltage class, known only after the bank is computed: a rig
-// above the class boundary is assessed again with its own targets.
-func judge(rig *schema.Rig, set *rules.Set) (*rules.Review, error) {
-	t := set.Targets()
-	a, err := hazards.Assess(rig, t)
-	if err != nil {
-		return nil, err
-	}
-	if q, ok := a.Q("bank.voltage"); ok {
-		v := q.Value
-		if q.Worst != nil {
-			v = *q.Worst
-		}
-		if t2 := set.TargetsFor(v); t2.TimeAllowed != t.TimeAllowed {
-			if a, err = hazards.Assess(rig, t2); err != nil {
-				return nil, err
-			}
-		}
-	}
-	return set.Evaluate(a)
-}
+// judge computes a rig's hazards and evaluates the rulebook, with the targets of the bank's voltage class
+// (rules.Set.Judge).
+func judge(rig *schema.Rig, set *rules.Set) (*rules.Review, error) { return set.Judge(rig) }
 
 func orUnnamed(s string) string {
 	if s == "" {

@@ -39,22 +39,7 @@ func review(b *testing.B, name string, data []byte, pdf *bytes.Buffer) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	a, err := hazards.Assess(rig, set.Targets())
-	if err != nil {
-		b.Fatal(err)
-	}
-	if q, ok := a.Q("bank.voltage"); ok {
-		v := q.Value
-		if q.Worst != nil {
-			v = *q.Worst
-		}
-		if t2 := set.TargetsFor(v); t2.TimeAllowed != set.Targets().TimeAllowed {
-			if a, err = hazards.Assess(rig, t2); err != nil {
-				b.Fatal(err)
-			}
-		}
-	}
-	rv, err := set.Evaluate(a)
+	rv, err := set.Judge(rig)
 	if err != nil {
 		b.Fatal(err)
 	}

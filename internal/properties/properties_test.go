@@ -96,24 +96,11 @@ type generated struct {
 // judge runs assess and evaluate as the check command does: against the policy's targets, and again
 // with the targets of the bank's voltage class when they differ.
 func judge(rig *schema.Rig, set *rules.Set) (*hazards.Assessment, *rules.Review, error) {
-	t := set.Targets()
-	a, err := hazards.Assess(rig, t)
+	rv, err := set.Judge(rig)
 	if err != nil {
 		return nil, nil, err
 	}
-	if q, ok := a.Q("bank.voltage"); ok {
-		v := q.Value
-		if q.Worst != nil {
-			v = *q.Worst
-		}
-		if t2 := set.TargetsFor(v); t2.TimeAllowed != t.TimeAllowed {
-			if a, err = hazards.Assess(rig, t2); err != nil {
-				return nil, nil, err
-			}
-		}
-	}
-	rv, err := set.Evaluate(a)
-	return a, rv, err
+	return rv.Assessment, rv, nil
 }
 
 func generate(t *testing.T, seed int64, n int) []generated {
