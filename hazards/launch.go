@@ -818,6 +818,7 @@ func readProjectile(a *Assessment) (projectileSpec, bool) {
 	}
 	if p.Resistivity != nil && *p.Resistivity > 0 {
 		ps.mat.Resistivity20 = *p.Resistivity
+		ps.mat.ResistivitySpread = 0 // a stated (measured) resistivity replaces the table's spread
 		ps.mat.Basis = "resistivity as stated in the rig; " + ps.mat.Basis
 	}
 	if p.Density != nil && *p.Density > 0 {
@@ -969,7 +970,28 @@ func assessLaunch(a *Assessment) error {
 		}
 		worst, hasWorst = worseRun(nom, w), true
 	}
-	return addLaunchQuantities(a, setup, ps, div, nom, worst, hasWorst)
+	// A material whose resistivity spreads between lots or tempers (6061: about ±10 % with temper) is also
+	// shot at the low end of that spread, which carries the larger eddy currents, with the worst bank.
+	lowRho := false
+	if sp := ps.mat.ResistivitySpread; sp > 0 && sp < 1 {
+		low := ps
+		low.mat.Resistivity20 *= 1 - sp
+		lowSetup, _, err := setupFor(a, low, loop, ambient)
+		if err != nil {
+			return err
+		}
+		c, v := loop.C, loop.V0
+		if b := a.m.bank; b != nil && b.CWorst > 0 && b.VWorst > 0 {
+			c, v = b.CWorst, b.VWorst
+		}
+		opt.record = false
+		w, err := lowSetup.run(c, v, opt)
+		if err != nil {
+			return fmt.Errorf("%w (worst-case bank at the low end of the projectile's resistivity; allowed %v of wall time)", err, timeout)
+		}
+		worst, hasWorst, lowRho = worseRun(worst, w), true, true
+	}
+	return addLaunchQuantities(a, setup, ps, div, nom, worst, hasWorst, lowRho)
 }
 
 // worseRun returns, quantity by quantity, the worse of two shots: the faster flight (speed, rise, timing),
@@ -1024,7 +1046,7 @@ func tiltedRange(v, theta, clearance float64) float64 {
 }
 
 // addLaunchQuantities turns the runs into quantities and curves.
-func addLaunchQuantities(a *Assessment, s *launchSetup, ps projectileSpec, div division, nom, worst launchRun, hasWorst bool) error {
+func addLaunchQuantities(a *Assessment, s *launchSetup, ps projectileSpec, div division, nom, worst launchRun, hasWorst, lowRho bool) error {
 	r := a.Rig
 	m := s.mass
 	w := func(v float64) *float64 {
@@ -1040,6 +1062,9 @@ func addLaunchQuantities(a *Assessment, s *launchSetup, ps projectileSpec, div d
 		"coil and loop resistance held at 20 °C (the coldest conductors give the largest currents); the projectile's resistance rises with its temperature",
 		div.nr, div.nz, div.delta*1e3, div.freq, nom.Steps)
 	worstNote := "worst case at +C tolerance and the worst charge voltage"
+	if lowRho {
+		worstNote += fmt.Sprintf(", and the projectile's resistivity at the low end of its %.0f %% spread", 100*ps.mat.ResistivitySpread)
+	}
 	if !hasWorst {
 		worstNote = "no worst-case bank stated"
 	}

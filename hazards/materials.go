@@ -11,6 +11,9 @@ type Material struct {
 	Density       float64 // kg/m³
 	SpecificHeat  float64 // J/(kg·K), near room temperature
 	Basis         string  // where the values come from
+	// ResistivitySpread is the fractional spread of ρ20 between lots or tempers (0.10 = ±10 %); the launch
+	// worst case takes the low end, which gives the larger eddy currents. Zero where the grade fixes ρ.
+	ResistivitySpread float64
 }
 
 // VolumetricHeat returns the volumetric specific heat Density·SpecificHeat, J/(K·m³).
@@ -67,6 +70,8 @@ var Aluminium6061 = Material{
 	Density:       2700,
 	SpecificHeat:  896,
 	Basis:         "from memory: typical producers' figures for 6061-T6 (43 % IACS); temper changes ρ by about ±10 %",
+
+	ResistivitySpread: 0.10,
 }
 
 // Brass is cartridge brass C26000 (70/30), about 28 % IACS: ρ20 ≈ 6.2e-8 Ω·m, α20 ≈ 0.0015 /K,
