@@ -58,16 +58,25 @@ func (d *doc) figures() {
 	d.figure("Bank voltage after switch-off through the permanent discharge paths (a dump circuit is not counted)", decay, refs,
 		"the discharge curves (discharge.decay, discharge.decay_single_fault)")
 
+	// A rig without a coil (a flash bank) discharges through its load: name the loop, not a coil.
+	hasCoil := a.Rig != nil && a.Rig.Coil != nil
+	dry, through := "coil only", "Discharge current through the coil"
+	if !hasCoil {
+		dry, through = "discharge loop", "Discharge current in the loop"
+	}
 	var cur, volt []series
 	if c, ok := a.Curve("pulse.current"); ok {
-		cur = append(cur, series{c, "coil only", blue, false})
+		if !hasCoil {
+			c.YLabel = "loop current (A)"
+		}
+		cur = append(cur, series{c, dry, blue, false})
 	}
 	if c, ok := a.Curve("launch.current"); ok {
 		cur = append(cur, series{c, "with projectile", orange, true})
 	}
-	d.figure("Discharge current through the coil", cur, nil, "the current waveforms (pulse.current, launch.current)")
+	d.figure(through, cur, nil, "the current waveforms (pulse.current, launch.current)")
 	if c, ok := a.Curve("pulse.bank_voltage"); ok {
-		volt = append(volt, series{c, "coil only", blue, false})
+		volt = append(volt, series{c, dry, blue, false})
 	}
 	if c, ok := a.Curve("launch.bank_voltage"); ok {
 		volt = append(volt, series{c, "with projectile", orange, true})
