@@ -204,6 +204,17 @@ func deriveLimits(e *evalEnv, p *Policy) map[string]float64 {
 		l["limit.projectile_range"] = s * s * math.Sin(2*l["limit.tilt"]) / g
 	}
 
+	// The peak current the switch and the cells must carry: the coil-only pulse (DESIGN.md §9's
+	// pulse.peak_current), or the pulse with the projectile in place where that is larger (a conducting disc
+	// on the coil lowers the loop's effective inductance and raises the peak), worst case of each.
+	if p, ok := e.lookup("worst.pulse.peak_current"); ok {
+		peak := p.(float64)
+		if w, ok := e.lookup("worst.launch.peak_current_with_projectile"); ok {
+			peak = math.Max(peak, w.(float64))
+		}
+		l["limit.peak_current"] = peak
+	}
+
 	// The pulse's I²t against that of the surge rating's half-sine, I_TSM²·t_p/2 (t_p 10 ms when not stated):
 	// the physics' own ratio when it gives one, else from pulse.i2t and the rig's ratings (common practice,
 	// equal-I²t comparison of a shorter pulse).

@@ -180,6 +180,8 @@ func (s *Set) unknownFinding(r *Rule, missing, read []string) Finding {
 			}
 		case m == "limit.projectile_range":
 			qs = append(qs, "launch.speed")
+		case m == "limit.peak_current":
+			qs = append(qs, "pulse.peak_current")
 		case m == "limit.decay_predicted":
 			qs = append(qs, "discharge.decay_time_predicted")
 		case strings.HasPrefix(m, "limit."):

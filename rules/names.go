@@ -169,6 +169,7 @@ var limitCatalog = map[string]nameInfo{
 	"limit.bleeder_chains":   {kindNum, "1"},   // bleeder.count, default 1
 	"limit.tilt":             {kindNum, "rad"}, // room.tilt, else launch.default_tilt
 	"limit.projectile_range": {kindNum, "m"},   // worst launch.exclusion_radius, else v² sin 2θ / g
+	"limit.peak_current":     {kindNum, "A"},   // larger of worst pulse.peak_current and worst launch.peak_current_with_projectile
 	"limit.surge_i2t_ratio":  {kindNum, "1"},   // worst switch.surge_i2t_ratio, else worst pulse.i2t / (I_TSM² t_p / 2)
 	"limit.decay_predicted":  {kindNum, "s"},   // predicted time for the measured decay, nearest path
 }

@@ -99,6 +99,18 @@ var ruleCases = []ruleCase{
 	// A short pulse within the half-sine's I²t earns the equal-I²t comparison instead (common practice).
 	{"SWT-03", func(f *fixture) { f.rig.Switch.Surge = f64(800); f.set("switch.surge_i2t_ratio", 1.5) },
 		func(f *fixture) { f.rig.Switch.Surge = f64(800); f.set("switch.surge_i2t_ratio", 0.1) }},
+	// With the projectile in place the peak can exceed the coil-only pulse: the switch must carry the larger.
+	{"SWT-03", func(f *fixture) {
+		f.rig.Switch.Surge = f64(800)
+		f.set("pulse.peak_current", 700)
+		f.set("launch.peak_current_with_projectile", 1000)
+		f.set("pulse.i2t", 4000)
+	}, func(f *fixture) {
+		f.rig.Switch.Surge = f64(800)
+		f.set("pulse.peak_current", 700)
+		f.set("launch.peak_current_with_projectile", 750)
+		f.set("pulse.i2t", 4000)
+	}},
 	{"SWT-08", func(f *fixture) { f.rig.Switch.Surge = f64(800); f.set("switch.surge_i2t_ratio", 0.1) },
 		func(f *fixture) { f.rig.Switch.Surge = f64(800); f.set("switch.surge_i2t_ratio", 1.5) }},
 	{"SWT-04", func(f *fixture) { f.rig.Switch.Surge = f64(1100) }, func(f *fixture) { f.rig.Switch.Surge = f64(1300) }},
