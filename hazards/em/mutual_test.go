@@ -176,7 +176,7 @@ func TestInductanceMatrixPositiveDefinite(t *testing.T) {
 // strip of width w: 0.2235 w; of a full rectangle b × c: 0.2235 (b + c) — Grover 1946, ch. 2), 200
 // strips per coil so that the sum approaches the sheet.
 func TestFilamentSumAgainstWheeler(t *testing.T) {
-	tests := []struct {
+	type wheelerCase struct {
 		name   string
 		r, z   []float64
 		turns  []float64
@@ -184,7 +184,8 @@ func TestFilamentSumAgainstWheeler(t *testing.T) {
 		wheel  float64
 		tol    float64
 		reason string
-	}{}
+	}
+	var tests []wheelerCase
 	// Single-layer solenoid, a = 20 mm, b = 40 mm (b = 2a > 0.8a): Wheeler ~1 %.
 	{
 		n, a, b := 200, 0.02, 0.04
@@ -193,29 +194,13 @@ func TestFilamentSumAgainstWheeler(t *testing.T) {
 			r = append(r, a)
 			z = append(z, -(float64(k)+0.5)*b/float64(n))
 		}
-		tests = append(tests, struct {
-			name   string
-			r, z   []float64
-			turns  []float64
-			gmd    float64
-			wheel  float64
-			tol    float64
-			reason string
-		}{"solenoid b=2a", r, z, nil, RectGMD(b/float64(n), 0), WheelerSolenoid(a, b, float64(n)), 0.01, "Wheeler: ~1 % for b > 0.8a"})
+		tests = append(tests, wheelerCase{"solenoid b=2a", r, z, nil, RectGMD(b/float64(n), 0), WheelerSolenoid(a, b, float64(n)), 0.01, "Wheeler: ~1 % for b > 0.8a"})
 	}
 	// Flat spiral, inner radius 10 mm, outer 60 mm: a = 35 mm, c = 50 mm > 0.2a. Wheeler ~5 %.
 	{
 		n := 200
 		r, z := pancake(n, 0.01, 0.06)
-		tests = append(tests, struct {
-			name   string
-			r, z   []float64
-			turns  []float64
-			gmd    float64
-			wheel  float64
-			tol    float64
-			reason string
-		}{"spiral c=1.4a", r, z, nil, RectGMD(0.05/float64(n), 0), WheelerSpiral(0.035, 0.05, float64(n)), 0.05, "Wheeler: ~5 % for c > 0.2a"})
+		tests = append(tests, wheelerCase{"spiral c=1.4a", r, z, nil, RectGMD(0.05/float64(n), 0), WheelerSpiral(0.035, 0.05, float64(n)), 0.05, "Wheeler: ~5 % for c > 0.2a"})
 	}
 	// Multi-layer, a = 30 mm, b = 20 mm, c = 18 mm: denominator terms 0.18, 0.18, 0.18. 10 layers × 20 rows,
 	// one turn per block cell.
@@ -228,15 +213,7 @@ func TestFilamentSumAgainstWheeler(t *testing.T) {
 				z = append(z, -(float64(j)+0.5)*b/20)
 			}
 		}
-		tests = append(tests, struct {
-			name   string
-			r, z   []float64
-			turns  []float64
-			gmd    float64
-			wheel  float64
-			tol    float64
-			reason string
-		}{"multilayer 6a=9b=10c", r, z, nil, RectGMD(c/10, b/20), WheelerMultilayer(a, b, c, 200), 0.01, "Wheeler: ~1 % when the denominator terms are equal (from memory)"})
+		tests = append(tests, wheelerCase{"multilayer 6a=9b=10c", r, z, nil, RectGMD(c/10, b/20), WheelerMultilayer(a, b, c, 200), 0.01, "Wheeler: ~1 % when the denominator terms are equal (from memory)"})
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
