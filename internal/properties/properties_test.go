@@ -140,7 +140,7 @@ var nonFiniteWord = regexp.MustCompile(`\b(NaN|[+-]?Inf(inity)?)\b`)
 
 // TestNoNonFiniteOutput checks that no NaN or infinity reaches any output: quantity values, worst cases
 // and inputs, curves, finding messages, the text and JSON renderings, and (for a few rigs) the PDF's
-// rendering without error.
+// rendering without error; and that every quantity carries its unit, formula and basis.
 func TestNoNonFiniteOutput(t *testing.T) {
 	opt := report.Options{Date: time.Date(2026, 12, 1, 0, 0, 0, 0, time.UTC), Version: "test"}
 	for i, g := range generate(t, 1, count(10, 60)) {
@@ -148,6 +148,10 @@ func TestNoNonFiniteOutput(t *testing.T) {
 			for _, q := range g.a.Quantities {
 				if !finite(q.Value) || (q.Worst != nil && !finite(*q.Worst)) {
 					t.Errorf("got %s = %v (worst %v), want finite", q.Name, q.Value, q.Worst)
+				}
+				// DESIGN.md §4: every computed quantity carries its unit, formula and basis.
+				if q.Unit == "" || q.Formula == "" || q.Basis == "" {
+					t.Errorf("got %s with unit %q, formula %q, basis %q; want all three", q.Name, q.Unit, q.Formula, q.Basis)
 				}
 				for _, in := range q.Inputs {
 					if !finite(in.Value) {
